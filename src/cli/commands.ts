@@ -1,8 +1,14 @@
-/** The falciform commands; each module in commands/ exports one. */
+import { analyze } from './commands/analyze.js';
+import { followup } from './commands/followup.js';
+import { inspect } from './commands/inspect.js';
+import { report } from './commands/report.js';
+import { segments } from './commands/segments.js';
+
+/** One falciform command; each lives in its own module under commands/. */
 export interface Command {
   summary: string;
   usage: string;
   run(argv: readonly string[]): Promise<void>;
 }
 
-export const commands: Record<string, Command> = {};
+export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report };
