@@ -1,8 +1,8 @@
+import { CAUTION } from '../caution.js';
 import { isFalciformError } from '../errors.js';
 import { UsageError } from './args.js';
 import { commands } from './commands.js';
-
-export const VERSION = '0.1.0';
+import { VERSION } from '../version.js';
 
 const HELP = `falciform ${VERSION} — follow liver lesions across visits by Couinaud segment
 
@@ -14,8 +14,7 @@ ${Object.entries(commands)
   .join('\n')}
 
 Exit codes: 0 done, 2 usage error, 3 bad input.
-Research and decision-support tool, not a medical device: segment assignments and measurements must
-be checked by a qualified reader; local protocols and licensed practice decide.
+${CAUTION}
 `;
 
 /** Runs one command line; returns the exit code. Bad input gives one stderr line, never a stack trace. */

@@ -1,0 +1,89 @@
+import { readFile } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { app, BrowserWindow, dialog, ipcMain, protocol, session, type IpcMainInvokeEvent } from 'electron';
+import {
+  CHANNELS, MAX_OPEN_BYTES, openFilesRequest, parseRequest, printToPdfRequest, saveFileRequest,
+} from './bridge-api.js';
+import { readChosenFiles, writeFileAtomic } from './file-access.js';
+import { APP_ORIGIN, APP_SCHEME, CONTENT_SECURITY_POLICY, isAllowedRequest, isAppUrl, windowOptions } from './security.js';
+import { contentType, resolveStaticPath } from './static-files.js';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const rendererRoot = join(here, '..', 'renderer');
+
+app.enableSandbox();
+protocol.registerSchemesAsPrivileged([
+  { scheme: APP_SCHEME, privileges: { standard: true, secure: true, supportFetchAPI: true, stream: true } },
+]);
+
+/** Serves the built renderer on falciform://app/ with the CSP on every response. */
+async function serveApp(request: Request): Promise<Response> {
+  const path = resolveStaticPath(rendererRoot, new URL(request.url).pathname);
+  if (!path) return new Response('not found', { status: 404 });
+  try {
+    const body = await readFile(path);
+    return new Response(body, {
+      headers: { 'content-type': contentType(path), 'content-security-policy': CONTENT_SECURITY_POLICY },
+    });
+  } catch {
+    return new Response('not found', { status: 404 });
+  }
+}
+
+/** Only the app's own page may call the bridge. */
+function windowOf(event: IpcMainInvokeEvent): BrowserWindow {
+  const win = BrowserWindow.fromWebContents(event.sender);
+  if (!win || !event.senderFrame || !isAppUrl(event.senderFrame.url)) throw new Error('refused: caller is not the app');
+  return win;
+}
+
+function registerBridge(): void {
+  ipcMain.handle(CHANNELS.openFiles, async (event, raw) => {
+    const win = windowOf(event);
+    const req = parseRequest(openFilesRequest, raw);
+    const properties: ('openFile' | 'openDirectory' | 'multiSelections')[] = [req.folder ? 'openDirectory' : 'openFile'];
+    if (req.multiple) properties.push('multiSelections');
+    const chosen = await dialog.showOpenDialog(win, { title: req.title, filters: req.filters, properties });
+    return chosen.canceled ? [] : readChosenFiles(chosen.filePaths, req.folder, MAX_OPEN_BYTES);
+  });
+  ipcMain.handle(CHANNELS.saveFile, async (event, raw) => {
+    const win = windowOf(event);
+    const req = parseRequest(saveFileRequest, raw);
+    const target = await dialog.showSaveDialog(win, { defaultPath: req.suggestedName, filters: req.filters });
+    if (target.canceled || !target.filePath) return { saved: false };
+    await writeFileAtomic(target.filePath, req.bytes);
+    return { saved: true };
+  });
+  ipcMain.handle(CHANNELS.printToPdf, async (event, raw) => {
+    const win = windowOf(event);
+    const req = parseRequest(printToPdfRequest, raw);
+    const pdf = await win.webContents.printToPDF({ pageSize: req.pageSize, printBackground: true });
+    const target = await dialog.showSaveDialog(win, {
+      defaultPath: req.suggestedName,
+      filters: [{ name: 'PDF', extensions: ['pdf'] }],
+    });
+    if (target.canceled || !target.filePath) return { saved: false };
+    await writeFileAtomic(target.filePath, pdf);
+    return { saved: true };
+  });
+}
+
+app.on('web-contents-created', (_event, contents) => {
+  contents.on('will-navigate', (e, url) => { if (!isAppUrl(url)) e.preventDefault(); });
+  contents.on('will-redirect', (e, url) => { if (!isAppUrl(url)) e.preventDefault(); });
+  contents.on('will-attach-webview', (e) => e.preventDefault());
+  contents.setWindowOpenHandler(() => ({ action: 'deny' }));
+});
+
+app.on('window-all-closed', () => app.quit());
+
+await app.whenReady();
+session.defaultSession.setPermissionRequestHandler((_contents, _permission, callback) => callback(false));
+session.defaultSession.webRequest.onBeforeRequest((details, callback) => callback({ cancel: !isAllowedRequest(details.url) }));
+protocol.handle(APP_SCHEME, serveApp);
+registerBridge();
+
+const win = new BrowserWindow(windowOptions(join(here, 'preload.cjs'), !app.isPackaged));
+win.once('ready-to-show', () => win.show());
+await win.loadURL(`${APP_ORIGIN}/index.html`);

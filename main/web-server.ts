@@ -1,0 +1,62 @@
+import { createReadStream } from 'node:fs';
+import { stat } from 'node:fs/promises';
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { CONTENT_SECURITY_POLICY } from './security.js';
+import { contentType, resolveStaticPath } from './static-files.js';
+
+export interface WebServer {
+  url: string;
+  port: number;
+  close(): Promise<void>;
+}
+
+/**
+ * Serves the built renderer on 127.0.0.1 only, for the browser-window mode of `npm start` and for
+ * the end-to-end tests. Same CSP as the desktop window; GET and HEAD only; requests addressed to
+ * any other host name are refused (a web page elsewhere cannot reach it through DNS rebinding).
+ */
+export async function startWebServer(root: string, port = 0): Promise<WebServer> {
+  const server: Server = createServer(async (req, res) => {
+    const host = req.headers.host ?? '';
+    const { port: actual } = server.address() as AddressInfo;
+    if (host !== `127.0.0.1:${actual}` && host !== `localhost:${actual}`) {
+      res.writeHead(421).end();
+      return;
+    }
+    if (req.method !== 'GET' && req.method !== 'HEAD') {
+      res.writeHead(405, { allow: 'GET, HEAD' }).end();
+      return;
+    }
+    const path = resolveStaticPath(root, req.url ?? '/');
+    const info = path ? await stat(path).catch(() => null) : null;
+    if (!path || !info?.isFile()) {
+      res.writeHead(404, { 'content-type': 'text/plain' }).end('not found');
+      return;
+    }
+    res.writeHead(200, {
+      'content-type': contentType(path),
+      'content-length': info.size,
+      'content-security-policy': CONTENT_SECURITY_POLICY,
+      'x-content-type-options': 'nosniff',
+      'referrer-policy': 'no-referrer',
+      'cross-origin-opener-policy': 'same-origin',
+      'cache-control': 'no-cache',
+    });
+    if (req.method === 'HEAD') res.end();
+    else createReadStream(path).pipe(res);
+  });
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(port, '127.0.0.1', () => resolve());
+  });
+  const { port: bound } = server.address() as AddressInfo;
+  return {
+    url: `http://127.0.0.1:${bound}/`,
+    port: bound,
+    close: () => new Promise<void>((resolve) => {
+      server.closeAllConnections();
+      server.close(() => resolve());
+    }),
+  };
+}

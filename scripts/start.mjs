@@ -1,0 +1,104 @@
+// npm start (after the build): the Electron window when Electron's binary is installed; otherwise
+// the built renderer served on 127.0.0.1 and opened in an installed Chromium or Chrome as an app
+// window with a profile folder of its own, or the URL printed when no browser is found.
+// FALCIFORM_BROWSER=none only serves and prints the URL. Ctrl-C ends everything cleanly.
+import { spawn } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { homedir } from 'node:os';
+import { join } from 'node:path';
+import { startWebServer } from '../build/main/web-server.js';
+
+const require = createRequire(import.meta.url);
+
+function electronBinary() {
+  try {
+    const path = require('electron'); // the package's index.js gives the binary path, or throws
+    return typeof path === 'string' && existsSync(path) ? path : null;
+  } catch {
+    return null;
+  }
+}
+
+function dataFolder() {
+  if (process.env.FALCIFORM_DATA_DIR) return process.env.FALCIFORM_DATA_DIR;
+  if (process.platform === 'win32') return join(process.env.APPDATA ?? homedir(), 'Falciform');
+  if (process.platform === 'darwin') return join(homedir(), 'Library', 'Application Support', 'Falciform');
+  return join(process.env.XDG_DATA_HOME ?? join(homedir(), '.local', 'share'), 'falciform');
+}
+
+function findBrowser() {
+  const wanted = process.env.FALCIFORM_BROWSER;
+  if (wanted === 'none') return null;
+  const candidates = wanted ? [wanted] : [
+    '/usr/bin/chromium', '/usr/bin/chromium-browser', '/usr/bin/google-chrome', '/usr/bin/google-chrome-stable',
+    '/snap/bin/chromium',
+    '/Applications/Chromium.app/Contents/MacOS/Chromium',
+    '/Applications/Google Chrome.app/Contents/MacOS/Google Chrome',
+    join(process.env['PROGRAMFILES'] ?? 'C:\\Program Files', 'Google', 'Chrome', 'Application', 'chrome.exe'),
+    join(process.env['PROGRAMFILES(X86)'] ?? 'C:\\Program Files (x86)', 'Google', 'Chrome', 'Application', 'chrome.exe'),
+  ];
+  return candidates.find((p) => existsSync(p)) ?? null;
+}
+
+function runElectron(binary) {
+  const child = spawn(binary, ['.'], { stdio: 'inherit' });
+  const stop = () => child.kill('SIGTERM');
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+  child.on('exit', (code) => process.exit(code ?? 0));
+}
+
+/**
+ * The browser keeps the store (IndexedDB) per origin, port included, so the served app reuses the
+ * port it had last time; a free one is taken (and remembered) when that one is busy.
+ */
+async function serve(profile) {
+  const portFile = join(profile, 'port');
+  const last = existsSync(portFile) ? Number(readFileSync(portFile, 'utf8')) : 0;
+  try {
+    return await startWebServer('build/renderer', Number.isInteger(last) ? last : 0);
+  } catch {
+    console.warn(`Port ${last} is busy; using another one. Data stored under the old port stays there.`);
+    return startWebServer('build/renderer', 0);
+  }
+}
+
+async function runServed() {
+  const profile = join(dataFolder(), 'browser-profile');
+  mkdirSync(profile, { recursive: true });
+  const server = await serve(profile);
+  writeFileSync(join(profile, 'port'), String(server.port));
+  console.log(`Falciform is served at ${server.url}`);
+  let browser = null;
+  const stop = async () => {
+    if (browser && browser.exitCode === null) browser.kill('SIGTERM');
+    await server.close();
+    process.exit(0);
+  };
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+
+  const path = findBrowser();
+  if (!path) {
+    console.log('No Chromium or Chrome found: open the address above in a browser. Ctrl-C to stop.');
+    return;
+  }
+  const started = Date.now();
+  browser = spawn(path, [
+    `--app=${server.url}`, `--user-data-dir=${profile}`, '--no-first-run', '--no-default-browser-check',
+    '--disable-background-networking', '--disable-component-update', '--disable-sync', '--window-size=1440,920',
+  ], { stdio: 'ignore' });
+  browser.on('error', () => console.log('Could not start the browser: open the address above yourself. Ctrl-C to stop.'));
+  browser.on('exit', () => {
+    if (Date.now() - started < 3000) {
+      console.log('The browser window closed at once (no display?): open the address above yourself. Ctrl-C to stop.');
+      return;
+    }
+    void stop(); // the app window was closed: nothing left to serve
+  });
+}
+
+const electron = electronBinary();
+if (electron) runElectron(electron);
+else await runServed();
