@@ -1,0 +1,101 @@
+import { z } from 'zod';
+import { badFile } from '../errors.js';
+
+/** An ISO 8601 calendar date (YYYY-MM-DD) that exists. */
+const isoDate = z.string().refine((s) => {
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) return false;
+  const d = new Date(`${s}T00:00:00Z`);
+  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
+}, 'must be a real date written YYYY-MM-DD');
+
+const relPath = z.string().min(1, 'must name a file');
+const id = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must be 1–64 letters, digits, ".", "_" or "-"');
+
+const visit = z
+  .strictObject({
+    id,
+    date: isoDate,
+    scan: relPath,
+    segments: relPath.optional(),
+    scheme: z.union([z.literal('default'), relPath]).optional(),
+    liver: relPath.optional(),
+    landmarks: relPath.optional(),
+    caudate: relPath.optional(),
+    splitIV: z.boolean().optional(),
+    lesions: relPath.optional(),
+    marks: relPath.optional(),
+    /** Viable (enhancing) tumour mask for mRECIST, on any grid. */
+    viable: relPath.optional(),
+    note: z.string().max(2000).optional(),
+  })
+  .superRefine((v, ctx) => {
+    const hasMap = v.segments !== undefined;
+    const hasPlanes = v.liver !== undefined && v.landmarks !== undefined;
+    if (hasMap === hasPlanes) {
+      ctx.addIssue({ code: 'custom', message: 'must give either "segments" or both "liver" and "landmarks"' });
+    }
+    if ((v.lesions !== undefined) === (v.marks !== undefined)) {
+      ctx.addIssue({ code: 'custom', message: 'must give either "lesions" or "marks"' });
+    }
+  });
+
+const treatment = z.strictObject({
+  date: isoDate,
+  kind: z.enum(['therapy-start', 'therapy-end', 'ablation', 'resection', 'embolisation', 'other']),
+  label: z.string().min(1).max(200),
+});
+
+const manifestSchema = z
+  .strictObject({
+    patient: z.strictObject({
+      id,
+      birthYear: z.number().int().min(1900).max(2100).optional(),
+      heightCm: z.number().positive().max(260).optional(),
+      weightKg: z.number().positive().max(400).optional(),
+      sex: z.enum(['female', 'male', 'other']).optional(),
+      demo: z.boolean().optional(),
+    }),
+    marginMm: z.number().nonnegative().max(100).default(10),
+    criteria: z.enum(['RECIST 1.1', 'mRECIST']).optional(),
+    visits: z.array(visit).min(1, 'must list at least one visit'),
+    targets: z.array(id).max(5).optional(),
+    treatments: z.array(treatment).optional(),
+  })
+  .superRefine((m, ctx) => {
+    const seen = new Set<string>();
+    m.visits.forEach((v, n) => {
+      if (seen.has(v.id)) ctx.addIssue({ code: 'custom', path: ['visits', n, 'id'], message: `repeats visit id "${v.id}"` });
+      seen.add(v.id);
+    });
+  });
+
+export type Manifest = z.output<typeof manifestSchema>;
+export type ManifestVisit = Manifest['visits'][number];
+export type Treatment = NonNullable<Manifest['treatments']>[number];
+
+/** Reads a study manifest; visits come back in date order. Errors name the file and the field. */
+export function parseManifest(text: string, file: string): Manifest {
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (e) {
+    throw badFile(file, `is not valid JSON (${(e as Error).message})`);
+  }
+  const r = manifestSchema.safeParse(json);
+  if (!r.success) throw badFile(file, describeIssue(r.error.issues[0]));
+  const visits = [...r.data.visits].sort((a, b) => a.date.localeCompare(b.date));
+  return { ...r.data, visits };
+}
+
+function describeIssue(issue: z.core.$ZodIssue): string {
+  const where = issue.path.length ? issue.path.map((p) => (typeof p === 'number' ? `[${p}]` : `.${String(p)}`)).join('') : '';
+  const field = where ? `field ${where.replace(/^\./, '')}` : 'manifest';
+  return `${field} ${issue.message}`;
+}
+
+/** Joins a manifest-relative path onto the manifest's folder (POSIX separators, as in the manifest). */
+export function resolveManifestPath(manifestFile: string, relative: string): string {
+  if (relative.startsWith('/') || /^[A-Za-z]:[\\/]/.test(relative)) return relative;
+  const slash = Math.max(manifestFile.lastIndexOf('/'), manifestFile.lastIndexOf('\\'));
+  return slash < 0 ? relative : `${manifestFile.slice(0, slash + 1)}${relative}`;
+}
