@@ -1,10 +1,75 @@
+import { buildSegmentMap } from '../../segments/build.js';
+import { parseLandmarks } from '../../segments/landmarks.js';
+import { landmarkQc, parseReferenceSets, type LandmarkQc } from '../../segments/qc.js';
+import { liverVolumeMl, segmentVolumes } from '../../segments/volumes.js';
+import { UsageError, optionalOption, parseArgs, requireOption } from '../args.js';
 import type { Command } from '../commands.js';
+import { loadVolume, readTextFile, saveVolume } from '../node-io.js';
 
-// Placeholder until the segments command is built; it is replaced whole.
+const round = (x: number, digits: number) => Number(x.toFixed(digits));
+
+/** QC numbers for output: correlations to 6 decimals, distances to 0.01 mm. */
+function tidyQc(qc: LandmarkQc) {
+  return {
+    ...qc,
+    correlation: round(qc.correlation, 6),
+    maxChangeMm: round(qc.maxChangeMm, 2),
+    correlationWithout: qc.correlationWithout === null ? null : round(qc.correlationWithout, 6),
+    correlationWithoutEach: Object.fromEntries(Object.entries(qc.correlationWithoutEach).map(([k, v]) => [k, round(v, 6)])),
+  };
+}
+
 export const segments: Command = {
-  summary: '(segments is not built yet)',
-  usage: 'falciform segments',
-  async run() {
-    throw new Error('falciform segments is not built yet');
+  summary: 'build a segment map from a landmark set and a liver mask; segment volumes and landmark QC',
+  usage: 'falciform segments --liver FILE --landmarks FILE --out FILE [--caudate FILE] [--split-iv] [--reference FILE] [--json]',
+  async run(argv) {
+    const args = parseArgs(argv, ['liver', 'landmarks', 'out', 'caudate', 'reference'], ['split-iv', 'json']);
+    if (args.positional.length > 0) throw new UsageError(`unexpected argument "${args.positional[0]}"`);
+    const liverFile = requireOption(args, 'liver');
+    const landmarkFile = requireOption(args, 'landmarks');
+    const outFile = requireOption(args, 'out');
+    const caudateFile = optionalOption(args, 'caudate');
+    const referenceFile = optionalOption(args, 'reference');
+    const json = args.options.has('json');
+
+    // Read the small files first so a typo there fails before a large image is loaded.
+    const landmarks = parseLandmarks(await readTextFile(landmarkFile), landmarkFile);
+    const reference = referenceFile ? parseReferenceSets(await readTextFile(referenceFile), referenceFile) : undefined;
+    const liver = await loadVolume(liverFile);
+    const caudate = caudateFile ? await loadVolume(caudateFile) : undefined;
+    const built = buildSegmentMap(liver.volume, landmarks, {
+      caudate: caudate?.volume,
+      splitIV: args.options.has('split-iv'),
+      file: landmarkFile,
+      liverFile,
+      caudateFile,
+    });
+    await saveVolume(outFile, built.map.labels, 'uint8');
+
+    const qc = reference ? tidyQc(landmarkQc(landmarks, [], reference)) : null;
+    const warnings = [...liver.warnings, ...(caudate?.warnings ?? []), ...built.warnings];
+    const volumes = segmentVolumes(built.map).map((v) => ({ segment: v.segment, volumeMl: round(v.volumeMl, 3) }));
+    const liverMl = round(liverVolumeMl(built.map), 3);
+
+    if (json) {
+      process.stdout.write(`${JSON.stringify({ segments: volumes, liverVolumeMl: liverMl, qc, warnings })}\n`);
+      return;
+    }
+    const lines = [`segment map written to ${outFile}`, '', 'segment   volume (mL)'];
+    for (const v of volumes) lines.push(`${v.segment.padEnd(9)} ${v.volumeMl.toFixed(1).padStart(11)}`);
+    lines.push(`${'liver'.padEnd(9)} ${liverMl.toFixed(1).padStart(11)}`, '');
+    if (qc) {
+      lines.push(
+        `landmark QC against ${qc.comparedWith} reference configuration${qc.comparedWith === 1 ? '' : 's'}: ` +
+          `correlation ${qc.correlation.toFixed(4)}, largest distance change ${qc.maxChangeMm.toFixed(1)} mm ` +
+          `(${qc.maxChangePair.join('–')})`,
+        qc.worstLandmark
+          ? `  check ${qc.worstLandmark}: without it the correlation is ${(qc.correlationWithout as number).toFixed(4)}`
+          : '  no landmark stands out',
+      );
+    } else lines.push('landmark QC: not run (give --reference FILE with reference configurations)');
+    lines.push('', 'Research and decision-support tool, not a medical device: segment assignments must be checked by a qualified reader.');
+    process.stdout.write(`${lines.join('\n')}\n`);
+    for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
   },
 };
