@@ -1,11 +1,36 @@
-import { defineConfig } from 'vite';
+import { cpSync, existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { defineConfig, type Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
 
-// The renderer is served from disk (file:// in Electron, 127.0.0.1 otherwise): relative asset paths.
+/**
+ * Copies the generated demo patients (demo-data/, made at install) into the built app as demo/, so the
+ * first start can import them into the store.
+ */
+function demoPatients(): Plugin {
+  const source = resolve('demo-data');
+  return {
+    name: 'falciform-demo-patients',
+    apply: 'build',
+    writeBundle(options) {
+      if (!existsSync(join(source, 'index.json'))) {
+        this.warn('demo-data/index.json is missing: run `npm run demo:generate`; the app starts without demo patients');
+        return;
+      }
+      cpSync(source, join(options.dir!, 'demo'), {
+        recursive: true,
+        filter: (path) => !path.endsWith('.ts'),
+      });
+    },
+  };
+}
+
+// The renderer is served from its own origin (falciform://app in Electron, 127.0.0.1 otherwise):
+// relative asset paths keep both working.
 export default defineConfig({
   root: 'renderer',
   base: './',
-  plugins: [react()],
+  plugins: [react(), demoPatients()],
   worker: { format: 'es' },
   build: { outDir: '../build/renderer', emptyOutDir: true, target: 'es2022', chunkSizeWarningLimit: 2000 },
 });
