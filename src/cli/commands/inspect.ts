@@ -1,10 +1,72 @@
+import { toRows } from '../../geometry/mat4.js';
+import type { Volume } from '../../volume/volume.js';
+import { UsageError, parseArgs } from '../args.js';
 import type { Command } from '../commands.js';
+import { loadVolume } from '../node-io.js';
 
-// Placeholder until the inspect command is built; it is replaced whole.
+/** Smallest and largest physical value (after scl_slope/scl_inter), ignoring NaN; null when all are NaN. */
+export function valueRange(v: Volume): { min: number | null; max: number | null } {
+  const d = v.data;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let n = 0; n < d.length; n++) {
+    const x = d[n];
+    if (x < lo) lo = x;
+    if (x > hi) hi = x;
+  }
+  if (lo > hi) return { min: null, max: null };
+  const a = lo * v.slope + v.inter;
+  const b = hi * v.slope + v.inter;
+  return { min: Math.min(a, b), max: Math.max(a, b) };
+}
+
+/** Header values are float32 or products of them: print 7 significant digits, not float noise. */
+function tidy(x: number): number {
+  if (Number.isInteger(x)) return x;
+  const digits = Math.max(7, Math.floor(Math.log10(Math.abs(x))) + 2);
+  const y = Number(x.toPrecision(Math.min(digits, 17)));
+  return Object.is(y, -0) ? 0 : y;
+}
+
+/** As tidy, and a millimetre amount below a nanometre is float32 rounding of a zero. */
+function tidyMm(x: number): number {
+  return Math.abs(x) < 1e-6 ? 0 : tidy(x);
+}
+
 export const inspect: Command = {
-  summary: '(inspect is not built yet)',
-  usage: 'falciform inspect',
-  async run() {
-    throw new Error('falciform inspect is not built yet');
+  summary: 'header facts of a NIfTI-1/NIfTI-2 image (.nii, .nii.gz, .hdr/.img)',
+  usage: 'falciform inspect FILE [--json]',
+  async run(argv) {
+    const args = parseArgs(argv, [], ['json']);
+    if (args.positional.length !== 1) throw new UsageError('give exactly one image file');
+    const file = args.positional[0];
+    const { info, volume, warnings } = await loadVolume(file);
+    const { min, max } = valueRange(volume);
+    const out = {
+      file,
+      format: info.format,
+      dims: info.dims,
+      spacingMm: volume.spacingMm.map(tidyMm),
+      datatype: info.datatype,
+      affine: toRows(volume.affine).map((row) => row.map(tidyMm)),
+      affineSource: info.affineSource,
+      min: min === null ? null : tidy(min),
+      max: max === null ? null : tidy(max),
+      warnings,
+    };
+    if (args.options.has('json')) {
+      process.stdout.write(`${JSON.stringify(out)}\n`);
+      return;
+    }
+    const rows = out.affine.map((r) => `    [${r.map((x) => String(x).padStart(10)).join(' ')} ]`).join('\n');
+    const endian = info.littleEndian ? 'little-endian' : 'big-endian';
+    const scaling = info.slope !== 1 || info.inter !== 0 ? `, scaled ×${tidy(info.slope)} + ${tidy(info.inter)}` : '';
+    process.stdout.write(
+      `${file}\n` +
+        `  ${info.format}${info.pair ? ' (.hdr/.img pair)' : ''}, ${info.dims.join(' × ')} voxels, ${info.datatype} ${endian}${scaling}\n` +
+        `  spacing ${out.spacingMm.join(' × ')} mm; voxel to world (RAS mm) from the ${info.affineSource}:\n${rows}\n` +
+        `  values ${out.min} to ${out.max}${info.volumeCount > 1 ? ' (first volume)' : ''}\n` +
+        warnings.map((w) => `  note: ${w}\n`).join(''),
+    );
   },
 };

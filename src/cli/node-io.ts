@@ -1,0 +1,163 @@
+import { randomBytes } from 'node:crypto';
+import { open, readFile, rename, unlink, writeFile } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { createGunzip, gzipSync } from 'node:zlib';
+import { badFile } from '../errors.js';
+import type { Volume } from '../volume/volume.js';
+import { checkBudget, DEFAULT_MAX_BYTES, isGzip, readNifti, type Inflate, type LoadedNifti } from '../volume/nifti-read.js';
+import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../volume/nifti-header.js';
+import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
+
+/**
+ * node:zlib inflater for readNifti: streams into one buffer sized up front and stops at
+ * maxOutputBytes, so a gzip bomb never costs more than what the header justified.
+ */
+export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
+  new Promise((resolve, reject) => {
+    // Deflate expands at most about 1032:1, so a tiny file cannot make us reserve a huge buffer.
+    const cap = Math.max(0, Math.min(maxOutputBytes, gz.length * 1032 + 1024));
+    const out = new Uint8Array(cap);
+    let n = 0;
+    let settled = false;
+    const finish = (err?: Error) => {
+      if (settled) return;
+      settled = true;
+      if (err) reject(err);
+      else resolve(n < cap ? out.subarray(0, n) : out);
+    };
+    const z = createGunzip({ chunkSize: 1 << 20 });
+    z.on('data', (chunk: Buffer) => {
+      if (settled) return;
+      const take = Math.min(chunk.length, cap - n);
+      out.set(take === chunk.length ? chunk : chunk.subarray(0, take), n);
+      n += take;
+      if (n >= cap) {
+        finish();
+        z.destroy();
+      }
+    });
+    z.on('end', () => finish());
+    z.on('error', (e) => finish(e));
+    z.end(gz);
+  });
+
+function cannotRead(path: string, e: unknown) {
+  const code = (e as { code?: string }).code;
+  const why =
+    code === 'ENOENT' ? 'no such file' :
+    code === 'EACCES' || code === 'EPERM' ? 'permission denied' :
+    code === 'EISDIR' ? 'is a folder, not a file' :
+    e instanceof Error ? e.message : String(e);
+  return badFile(path, `cannot be read: ${why}`);
+}
+
+/** Reads at most `limit` bytes from the start of a file (all of it when limit is Infinity). */
+async function readPrefix(path: string, limit: number): Promise<Uint8Array> {
+  let fh;
+  try {
+    fh = await open(path, 'r');
+    const { size } = await fh.stat();
+    if (!(limit < size)) {
+      // View the Buffer's memory rather than copying the whole file.
+      const whole = await fh.readFile();
+      return new Uint8Array(whole.buffer, whole.byteOffset, whole.byteLength);
+    }
+    const buf = new Uint8Array(limit);
+    let at = 0;
+    while (at < limit) {
+      const { bytesRead } = await fh.read(buf, at, limit - at, at);
+      if (bytesRead === 0) break;
+      at += bytesRead;
+    }
+    return at < limit ? buf.subarray(0, at) : buf;
+  } catch (e) {
+    throw cannotRead(path, e);
+  } finally {
+    await fh?.close().catch(() => undefined);
+  }
+}
+
+/**
+ * Reads what readNifti needs of an image file. An uncompressed single file is read only up to the end
+ * of its first volume, after its header passed the budget check, so a 4-D series or a lying header
+ * does not pull the whole file into memory. A gzipped file is read whole (that is its compressed
+ * size) and inflated only as far as needed.
+ */
+async function readImageFile(path: string, budget: number): Promise<Uint8Array> {
+  const head = await readPrefix(path, HEADER_BYTES_NEEDED);
+  if (isGzip(head)) return readPrefix(path, Infinity);
+  const { info } = parseNiftiHeader(head, path);
+  if (info.pair) return head;
+  checkBudget(info, path, budget);
+  return readPrefix(path, info.voxOffset + info.volumeBytes);
+}
+
+/** The header's facts when they can be read, else undefined (readNifti then reports the problem). */
+async function tryHeader(bytes: Uint8Array, path: string) {
+  try {
+    const head = isGzip(bytes) ? await nodeInflate(bytes, HEADER_BYTES_NEEDED) : bytes;
+    return parseNiftiHeader(head, path).info;
+  } catch {
+    return undefined;
+  }
+}
+
+function pairImageNames(headerPath: string): string[] {
+  const stem = headerPath.replace(/\.hdr(\.gz)?$/i, '');
+  return stem === headerPath ? [`${headerPath}.img`, `${headerPath}.img.gz`] : [`${stem}.img`, `${stem}.img.gz`, `${stem}.IMG`];
+}
+
+/** Loads the first 3-D volume of a .nii, .nii.gz or .hdr/.img pair (given either file of the pair). */
+export async function loadVolume(path: string, opts: { maxBytes?: number } = {}): Promise<LoadedNifti> {
+  const budget = opts.maxBytes ?? DEFAULT_MAX_BYTES;
+  const givenImage = /\.img(\.gz)?$/i.test(path);
+  const headerPath = givenImage ? path.replace(/\.img(\.gz)?$/i, '.hdr') : path;
+  const bytes = await readImageFile(headerPath, budget);
+  const info = await tryHeader(bytes, headerPath);
+  let imageBytes: Uint8Array | undefined;
+  let imageFile: string | undefined;
+  if (info?.pair) {
+    checkBudget(info, headerPath, budget);
+    const end = info.voxOffset + info.volumeBytes;
+    for (const name of givenImage ? [path] : pairImageNames(headerPath)) {
+      let found: Uint8Array;
+      try {
+        found = await readPrefix(name, end);
+      } catch {
+        continue;
+      }
+      imageBytes = isGzip(found) && found.length === end ? await readPrefix(name, Infinity) : found;
+      imageFile = name;
+      break;
+    }
+    if (!imageBytes) throw badFile(pairImageNames(headerPath)[0], 'cannot be read: the .img data file of this .hdr/.img pair is missing');
+  }
+  return readNifti(bytes, headerPath, { inflate: nodeInflate, maxBytes: budget, imageBytes, imageFile });
+}
+
+/**
+ * Writes a volume as NIfTI-1, gzipped unless the name ends in ".nii". Written to a temporary file in
+ * the same folder and renamed, so a failure never leaves a half-written image under the final name.
+ */
+export async function saveVolume(path: string, volume: Volume, datatype: WriteDatatype): Promise<void> {
+  const raw = encodeNifti(volume, datatype);
+  const bytes = /\.nii$/i.test(path) ? raw : gzipSync(raw);
+  const tmp = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
+  try {
+    await writeFile(tmp, bytes);
+    await rename(tmp, path);
+  } catch (e) {
+    await unlink(tmp).catch(() => undefined);
+    const why = e instanceof Error ? e.message : String(e);
+    throw badFile(path, `cannot be written: ${why}`);
+  }
+}
+
+/** Reads a UTF-8 text file (JSON manifests, landmark sets, marks). */
+export async function readTextFile(path: string): Promise<string> {
+  try {
+    return await readFile(path, 'utf8');
+  } catch (e) {
+    throw cannotRead(path, e);
+  }
+}
