@@ -1,4 +1,5 @@
 import { Caution } from './components/Caution';
+import { PatientList } from './screens/PatientList';
 import { VERSION } from '../src/version';
 
 /** The application frame: header, the current screen, the caution. */
@@ -11,12 +12,7 @@ export function App() {
         <span className="version">v{VERSION}</span>
       </header>
       <main className="app-main">
-        <section className="patients" aria-labelledby="patients-title">
-          <h2 id="patients-title">Patients</h2>
-          <p className="empty" data-testid="no-patients">
-            No patients stored on this computer yet. Import a patient folder with its manifest to begin.
-          </p>
-        </section>
+        <PatientList />
       </main>
       <footer className="app-footer">
         <Caution />

@@ -1,0 +1,81 @@
+import { badFile } from '../../src/errors.js';
+import { invertAffine, transformPoint, type Vec3 } from '../../src/geometry/mat4.js';
+import type { VolumeRole } from '../../src/model/records.js';
+import { importSegmentMap } from '../../src/segments/import.js';
+import type { SegmentScheme } from '../../src/segments/segment-map.js';
+import { valueAt, type Volume } from '../../src/volume/volume.js';
+
+/** A stored volume's grid: enough to place points and boxes in world space without its voxels. */
+export interface GridInfo {
+  file: string;
+  dims: readonly number[];
+  affine: readonly number[];
+}
+
+/** Labels must be whole numbers from 0 up; the masks a visit cannot do without must not be empty. */
+export function checkMask(volume: Volume, role: Exclude<VolumeRole, 'scan'>, file: string, scheme: SegmentScheme | 'default'): string[] {
+  const n = volume.data.length;
+  let nonzero = 0;
+  for (let k = 0; k < n; k++) {
+    const v = valueAt(volume, k);
+    if (v === 0) continue;
+    if (!(v > 0) || !Number.isInteger(v)) {
+      throw badFile(file, `holds the value ${v} at voxel ${k}; a ${role} mask must hold whole-number labels from 0 up`);
+    }
+    nonzero++;
+  }
+  const warnings: string[] = [];
+  if (nonzero === 0) {
+    if (role === 'lesions' || role === 'viable') warnings.push(`${file}: the ${role} mask is empty (no ${role === 'lesions' ? 'lesion' : 'viable'} voxels)`);
+    else throw badFile(file, `the ${role} mask is empty (no voxel above 0)`);
+  }
+  if (role === 'segments') warnings.push(...importSegmentMap(volume, scheme, file).warnings);
+  return warnings;
+}
+
+/** Masks must overlap the scan in world space: a mask that does not belongs to another scan. */
+export function checkOverlap(mask: GridInfo, scan: GridInfo): void {
+  const a = worldBox(mask);
+  const b = worldBox(scan);
+  const apart = [0, 1, 2].some((c) => a.max[c] < b.min[c] || b.max[c] < a.min[c]);
+  if (apart) {
+    throw badFile(
+      mask.file,
+      `does not overlap the scan ${scan.file} anywhere in world space; is it from another visit, or saved with a different orientation?`,
+    );
+  }
+}
+
+/** Points (landmarks, marks) must lie on the scan's grid, allowing one voxel beyond its edge. */
+export function checkPointsOnScan(points: { name: string; at: Vec3 }[], file: string, scan: GridInfo): void {
+  const inverse = invertAffine(scan.affine);
+  for (const { name, at } of points) {
+    const ijk = transformPoint(inverse, at);
+    const outside = ijk.some((x, c) => x < -1.5 || x > extent(scan, c) + 0.5);
+    if (outside) {
+      const shown = at.map((x) => x.toFixed(1)).join(', ');
+      throw badFile(
+        file,
+        `${name} at [${shown}] mm lies outside the scan ${scan.file}; points must be world RAS mm on this visit's scan (LPS points need x and y negated)`,
+      );
+    }
+  }
+}
+
+function worldBox(g: GridInfo): { min: number[]; max: number[] } {
+  const min = [Infinity, Infinity, Infinity];
+  const max = [-Infinity, -Infinity, -Infinity];
+  for (let corner = 0; corner < 8; corner++) {
+    const edge = (c: number) => ((corner >> c) & 1 ? extent(g, c) - 0.5 : -0.5);
+    const ijk: Vec3 = [edge(0), edge(1), edge(2)];
+    const p = transformPoint(g.affine, ijk);
+    for (let c = 0; c < 3; c++) {
+      min[c] = Math.min(min[c], p[c]);
+      max[c] = Math.max(max[c], p[c]);
+    }
+  }
+  return { min, max };
+}
+
+/** Grid size along axis c; a 2-D image has one slice. */
+const extent = (g: GridInfo, c: number) => g.dims[c] ?? 1;
