@@ -1,10 +1,141 @@
+import { CAUTION } from '../../caution.js';
+import type { Vec3 } from '../../geometry/mat4.js';
+import { parseMarks } from '../../lesions/marks.js';
+import { buildSegmentMap } from '../../segments/build.js';
+import { importSegmentMap } from '../../segments/import.js';
+import { parseLandmarks } from '../../segments/landmarks.js';
+import { parseScheme } from '../../segments/scheme.js';
+import type { SegmentMap } from '../../segments/segment-map.js';
+import { analyzeVisit, DEFAULT_MARGIN_MM, type LesionResult, type VisitAnalysis } from '../../visit/analyze.js';
+import type { Volume } from '../../volume/volume.js';
+import { numberOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
+import { loadVolume, readTextFile } from '../node-io.js';
 
-// Placeholder until the analyze command is built; it is replaced whole.
+const USAGE =
+  'falciform analyze --scan FILE (--segments FILE [--scheme FILE] | --liver FILE --landmarks FILE) ' +
+  '(--lesions FILE | --marks FILE) [--margin-mm N] [--json]';
+
 export const analyze: Command = {
-  summary: '(analyze is not built yet)',
-  usage: 'falciform analyze',
-  async run() {
-    throw new Error('falciform analyze is not built yet');
+  summary: 'one visit: segment volumes, lesions, their measures, segments and margin alerts',
+  usage: USAGE,
+  async run(argv) {
+    const args = parseArgs(argv, ['scan', 'segments', 'scheme', 'liver', 'landmarks', 'lesions', 'marks', 'margin-mm'], ['json']);
+    if (args.positional.length > 0) throw new UsageError(`unexpected argument "${args.positional[0]}"`);
+    const scanFile = requireOption(args, 'scan');
+    const segmentsFile = optionalOption(args, 'segments');
+    const schemeFile = optionalOption(args, 'scheme');
+    const liverFile = optionalOption(args, 'liver');
+    const landmarksFile = optionalOption(args, 'landmarks');
+    const lesionsFile = optionalOption(args, 'lesions');
+    const marksFile = optionalOption(args, 'marks');
+    if ((segmentsFile === undefined) === (liverFile === undefined)) throw new UsageError('give either --segments or --liver with --landmarks');
+    if (segmentsFile === undefined && schemeFile !== undefined) throw new UsageError('--scheme goes with --segments');
+    if (liverFile !== undefined && landmarksFile === undefined) throw new UsageError('--liver needs --landmarks');
+    if (segmentsFile !== undefined && landmarksFile !== undefined) throw new UsageError('--landmarks goes with --liver, not --segments');
+    if ((lesionsFile === undefined) === (marksFile === undefined)) throw new UsageError('give either --lesions (a lesion mask) or --marks (a marks file)');
+    const marginMm = numberOption(args, 'margin-mm', DEFAULT_MARGIN_MM);
+
+    const warnings: string[] = [];
+    // One file at a time, largest first: each compressed file is dropped before the next is
+    // inflated, which keeps the peak near the inflated voxels themselves.
+    const scan = keep(await loadVolume(scanFile), warnings);
+    const segments = segmentsFile !== undefined
+      ? await importedMap(segmentsFile, schemeFile, warnings)
+      : await builtMap(liverFile as string, landmarksFile as string, warnings);
+    const lesionMask = lesionsFile !== undefined ? keep(await loadVolume(lesionsFile), warnings) : undefined;
+    const marks = marksFile !== undefined ? parseMarks(await readTextFile(marksFile), marksFile) : undefined;
+    const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile });
+    analysis.warnings.unshift(...warnings);
+    if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(analysis))}\n`);
+    else process.stdout.write(summary(analysis, marginMm));
   },
 };
+
+function keep(loaded: { volume: Volume; warnings: string[] }, warnings: string[]): Volume {
+  warnings.push(...loaded.warnings);
+  return loaded.volume;
+}
+
+async function importedMap(file: string, schemeFile: string | undefined, warnings: string[]): Promise<SegmentMap> {
+  const [labels, scheme] = await Promise.all([
+    loadVolume(file).then((r) => keep(r, warnings)),
+    schemeFile !== undefined ? readTextFile(schemeFile).then((t) => parseScheme(t, schemeFile)) : ('default' as const),
+  ]);
+  const imported = importSegmentMap(labels, scheme, file);
+  warnings.push(...imported.warnings);
+  return imported.map;
+}
+
+async function builtMap(liverFile: string, landmarksFile: string, warnings: string[]): Promise<SegmentMap> {
+  const [liver, landmarks] = await Promise.all([
+    loadVolume(liverFile).then((r) => keep(r, warnings)),
+    readTextFile(landmarksFile).then((t) => parseLandmarks(t, landmarksFile)),
+  ]);
+  const built = buildSegmentMap(liver, landmarks, { file: landmarksFile, liverFile });
+  warnings.push(...built.warnings);
+  return built.map;
+}
+
+// Printed precision: well below what a scan resolves, well above float noise.
+const mm = (x: number) => round(x, 2);
+const ml = (x: number) => round(x, 3);
+const point = (p: Vec3) => [mm(p[0]), mm(p[1]), mm(p[2])];
+
+function round(x: number, digits: number): number {
+  const f = 10 ** digits;
+  const y = Math.round(x * f) / f;
+  return Object.is(y, -0) ? 0 : y;
+}
+
+/** The analyze document of the contracts: its fields first, in its order, then the extras. */
+function forJson(a: VisitAnalysis) {
+  return {
+    segments: a.segments.map((s) => ({ segment: s.segment, volumeMl: ml(s.volumeMl) })),
+    liverVolumeMl: ml(a.liverVolumeMl),
+    lesions: a.lesions.map(lesionJson),
+    warnings: a.warnings,
+  };
+}
+
+function lesionJson(l: LesionResult) {
+  const fractions: Record<string, number> = {};
+  for (const [s, f] of Object.entries(l.segmentFractions)) fractions[s] = round(f as number, 4);
+  return {
+    id: l.id,
+    centroidMm: point(l.centroidMm),
+    segment: l.segment,
+    segmentFractions: fractions,
+    volumeMl: l.volumeMl === null ? null : ml(l.volumeMl),
+    longestAxialMm: mm(l.longestAxialMm),
+    shortAxisMm: mm(l.shortAxisMm),
+    marginMm: l.marginMm === null ? null : mm(l.marginMm),
+    nearestOtherSegment: l.nearestOtherSegment,
+    marginAlert: l.marginAlert,
+    source: l.source,
+    max3dMm: l.max3dMm === null ? null : mm(l.max3dMm),
+    meanValue: l.meanValue === null ? null : round(l.meanValue, 2),
+    longestAxialEndpointsMm: l.longestAxialEndpointsMm === null ? null : l.longestAxialEndpointsMm.map(point),
+    voxelCount: l.voxelCount,
+    segmentWarning: l.segmentWarning,
+    ...(l.viableAxialMm !== undefined ? { viableAxialMm: mm(l.viableAxialMm) } : {}),
+  };
+}
+
+/** A plain-text summary for a reader at a terminal. */
+function summary(a: VisitAnalysis, marginMm: number): string {
+  const f1 = (x: number | null) => (x === null ? '—' : x.toFixed(1));
+  const lines = [`Liver ${f1(a.liverVolumeMl)} mL: ${a.segments.map((s) => `${s.segment} ${f1(s.volumeMl)}`).join(', ')} mL`, ''];
+  lines.push(`Lesions (margin alert below ${marginMm} mm):`);
+  lines.push('  id      segment  longest mm  short mm  volume mL  margin mm  nearest  alert');
+  for (const l of a.lesions) {
+    lines.push(
+      `  ${l.id.padEnd(7)} ${(l.segment ?? 'outside').padEnd(8)} ${f1(l.longestAxialMm).padStart(10)} ${f1(l.shortAxisMm).padStart(9)} ` +
+        `${(l.volumeMl === null ? '—' : l.volumeMl.toFixed(2)).padStart(10)} ${f1(l.marginMm).padStart(10)}  ${(l.nearestOtherSegment ?? '—').padEnd(7)}  ${l.marginAlert ? 'ALERT' : ''}`,
+    );
+  }
+  if (a.lesions.length === 0) lines.push('  (none)');
+  for (const w of a.warnings) lines.push(`warning: ${w}`);
+  lines.push('', CAUTION, '');
+  return lines.join('\n');
+}

@@ -1,0 +1,38 @@
+import { multiply, type Mat4 } from '../geometry/mat4.js';
+import type { Volume } from '../volume/volume.js';
+
+/** True when two volumes share dims and, to well under a micrometre, their affine. */
+export function sameGrid(a: Volume, b: Volume): boolean {
+  if (a.dims[0] !== b.dims[0] || a.dims[1] !== b.dims[1] || a.dims[2] !== b.dims[2]) return false;
+  for (let n = 0; n < 12; n++) if (Math.abs(a.affine[n] - b.affine[n]) > 1e-6) return false;
+  return true;
+}
+
+/** Affine from voxel coordinates of `from` to (continuous) voxel coordinates of `to`, via world mm. */
+export function gridToGrid(from: Volume, to: Volume): number[] {
+  return multiply(to.inverse, from.affine);
+}
+
+/**
+ * True when the grid axes are perpendicular in world space. Only then is a voxel's box its Voronoi
+ * cell and a separable distance transform exact.
+ */
+export function orthogonalColumns(affine: Mat4): boolean {
+  const col = (c: number) => [affine[c], affine[4 + c], affine[8 + c]];
+  const cols = [col(0), col(1), col(2)];
+  for (const [a, b] of [[0, 1], [0, 2], [1, 2]]) {
+    const x = cols[a], y = cols[b];
+    const dot = x[0] * y[0] + x[1] * y[1] + x[2] * y[2];
+    if (Math.abs(dot) > 1e-9 * Math.hypot(x[0], x[1], x[2]) * Math.hypot(y[0], y[1], y[2])) return false;
+  }
+  return true;
+}
+
+/**
+ * Half-widths in voxels, per grid axis, of the smallest grid-aligned box that holds a world ball of
+ * `mm` radius: along axis i a ball spans ±mm·|row i of the inverse|.
+ */
+export function ballHalfWidths(v: Volume, mm: number): [number, number, number] {
+  const m = v.inverse;
+  return [0, 1, 2].map((r) => mm * Math.hypot(m[r * 4], m[r * 4 + 1], m[r * 4 + 2])) as [number, number, number];
+}

@@ -1,0 +1,364 @@
+import type { Vec3 } from '../geometry/mat4.js';
+import type { SegmentMap, SegmentName } from '../segments/segment-map.js';
+import type { Volume } from '../volume/volume.js';
+import type { LesionVoxels } from './components.js';
+import { orthogonalColumns, sameGrid } from './grid.js';
+import { nearestVoxelInBall } from './nearest-voxel.js';
+import { PointTree } from './point-tree.js';
+import { BACKGROUND, segmentLookup, segmentName, type SegmentIndex } from './segment-lookup.js';
+
+export interface MarginResult {
+  /** Distance in mm to the nearest voxel centre of another segment; null: none within the search radius. */
+  marginMm: number | null;
+  nearestOtherSegment: SegmentName | null;
+}
+
+const NONE: MarginResult = { marginMm: null, nearestOtherSegment: null };
+
+/**
+ * Margin of a lesion from a mask whose voxels all lie in segment `own` or background (a lesion that
+ * spans segments has margin 0 by definition; the caller decides that first): the shortest distance
+ * from its voxel centres to a voxel centre of another non-background segment, exact up to `capMm`.
+ * Only a box around the lesion reaching `capMm` beyond it is read, so the cost follows the lesion's
+ * size and the radius, not the scan's.
+ *
+ * On a shared grid with perpendicular axes this is a box-limited Euclidean distance transform; on
+ * other grids, for very large boxes, or on request, an exact nearest-point search between the two
+ * voxel sets' borders. Both give the same distance.
+ */
+export function maskLesionMargin(
+  mask: Volume,
+  lesion: LesionVoxels,
+  map: SegmentMap,
+  own: SegmentIndex,
+  capMm: number,
+  method: 'auto' | 'edt' | 'search' = 'auto',
+): MarginResult {
+  if (own === BACKGROUND || lesion.voxels.length === 0) return NONE;
+  const edtFits = sameGrid(mask, map.labels) && orthogonalColumns(mask.affine);
+  if (method === 'edt' && !edtFits) throw new Error('the distance-transform margin needs one grid with perpendicular axes');
+  if (method === 'search' || !edtFits) return marginBySearch(mask, lesion, map, own, capMm);
+  const box = lesionBox(mask.dims, lesion.voxels, mask.spacingMm.map((s) => Math.ceil(capMm / s)));
+  // The transform holds 8 bytes per box voxel; past this size the search, which holds only border
+  // points, costs about the same time in a fraction of the memory.
+  if (method === 'auto' && box.bx * box.by * box.bz > EDT_MAX_BOX_VOXELS) return marginBySearch(mask, lesion, map, own, capMm);
+  return marginByDistanceTransform(mask, lesion, map, own, capMm, box);
+}
+
+const EDT_MAX_BOX_VOXELS = 1 << 21;
+
+/**
+ * Margin of a manual mark: distance from its centre to the nearest voxel centre of another segment,
+ * less half its longest diameter, floored at 0 (brief, "Measures").
+ */
+export function markMargin(map: SegmentMap, centreMm: Vec3, longestMm: number, own: SegmentIndex, capMm: number): MarginResult {
+  if (own === BACKGROUND) return NONE;
+  const seg = segmentLookup(map);
+  const near = nearestVoxelInBall(map.labels, centreMm, capMm + longestMm / 2, (n) => {
+    const s = seg(n);
+    return s !== own && s !== BACKGROUND;
+  });
+  if (!near) return NONE;
+  return { marginMm: Math.max(0, near.distanceMm - longestMm / 2), nearestOtherSegment: segmentName(seg(near.index)) };
+}
+
+interface Box {
+  i0: number; j0: number; k0: number;
+  bx: number; by: number; bz: number;
+}
+
+/** Index-space bounding box of the voxels, grown by `grow` voxels per axis and clipped to the grid. */
+function lesionBox(dims: readonly [number, number, number], voxels: Uint32Array, grow: readonly number[]): Box {
+  const [nx, ny, nz] = dims;
+  let iMin = nx, iMax = -1, jMin = ny, jMax = -1;
+  // Voxels are ascending, so the k range comes from the ends.
+  const kMin = Math.floor(voxels[0] / (nx * ny));
+  const kMax = Math.floor(voxels[voxels.length - 1] / (nx * ny));
+  for (let t = 0; t < voxels.length; t++) {
+    const n = voxels[t];
+    const i = n % nx;
+    const j = ((n - i) / nx) % ny;
+    if (i < iMin) iMin = i;
+    if (i > iMax) iMax = i;
+    if (j < jMin) jMin = j;
+    if (j > jMax) jMax = j;
+  }
+  const i0 = Math.max(0, iMin - grow[0]), i1 = Math.min(nx - 1, iMax + grow[0]);
+  const j0 = Math.max(0, jMin - grow[1]), j1 = Math.min(ny - 1, jMax + grow[1]);
+  const k0 = Math.max(0, kMin - grow[2]), k1 = Math.min(nz - 1, kMax + grow[2]);
+  return { i0, j0, k0, bx: i1 - i0 + 1, by: j1 - j0 + 1, bz: k1 - k0 + 1 };
+}
+
+/**
+ * Exact squared Euclidean distance transform of the lesion over a box (separable lower envelope of
+ * parabolas, one pass per axis with that axis's spacing), then the smallest value over the box's
+ * voxels of other segments.
+ */
+function marginByDistanceTransform(
+  mask: Volume,
+  lesion: LesionVoxels,
+  map: SegmentMap,
+  own: SegmentIndex,
+  capMm: number,
+  box: Box,
+): MarginResult {
+  const [nx, ny] = mask.dims;
+  const sp = mask.spacingMm;
+  const { i0, j0, k0, bx, by, bz } = box;
+  const seg = segmentLookup(map);
+  const isOther = (s: SegmentIndex) => s !== own && s !== BACKGROUND;
+
+  let anyOther = false;
+  for (let k = 0; k < bz && !anyOther; k++) {
+    for (let j = 0; j < by && !anyOther; j++) {
+      const row = i0 + nx * (j0 + j + ny * (k0 + k));
+      for (let i = 0; i < bx; i++) {
+        if (isOther(seg(row + i))) {
+          anyOther = true;
+          break;
+        }
+      }
+    }
+  }
+  if (!anyOther) return NONE;
+
+  const d2 = new Float64Array(bx * by * bz).fill(Infinity);
+  for (let t = 0; t < lesion.voxels.length; t++) {
+    const n = lesion.voxels[t];
+    const i = n % nx;
+    const j = ((n - i) / nx) % ny;
+    const k = (n - i - nx * j) / (nx * ny);
+    d2[i - i0 + bx * (j - j0 + by * (k - k0))] = 0;
+  }
+  const longest = Math.max(bx, by, bz);
+  const line = new Float64Array(longest);
+  const out = new Float64Array(longest);
+  const v = new Int32Array(longest);
+  const z = new Float64Array(longest + 1);
+  transformAxis(d2, bx, by * bz, 1, bx, sp[0] * sp[0], line, out, v, z);
+  for (let k = 0; k < bz; k++) transformAxis(d2, by, bx, bx, 1, sp[1] * sp[1], line, out, v, z, k * bx * by);
+  transformAxis(d2, bz, bx * by, bx * by, 1, sp[2] * sp[2], line, out, v, z);
+
+  let best = capMm * capMm * (1 + 1e-12);
+  let bestSeg: SegmentIndex = BACKGROUND;
+  for (let k = 0; k < bz; k++) {
+    for (let j = 0; j < by; j++) {
+      const row = i0 + nx * (j0 + j + ny * (k0 + k));
+      const b = bx * (j + by * k);
+      for (let i = 0; i < bx; i++) {
+        const d = d2[b + i];
+        if (d < best) {
+          const s = seg(row + i);
+          if (isOther(s)) {
+            best = d;
+            bestSeg = s;
+          }
+        }
+      }
+    }
+  }
+  return bestSeg === BACKGROUND ? NONE : { marginMm: Math.sqrt(best), nearestOtherSegment: segmentName(bestSeg) };
+}
+
+/**
+ * One pass of the distance transform along one box axis: `lines` lines of `n` samples `step` apart,
+ * line l starting at base + l·lineStep. Lines with no finite value stay infinite.
+ */
+function transformAxis(
+  d2: Float64Array,
+  n: number,
+  lines: number,
+  step: number,
+  lineStep: number,
+  w2: number,
+  f: Float64Array,
+  out: Float64Array,
+  v: Int32Array,
+  z: Float64Array,
+  base = 0,
+): void {
+  for (let l = 0; l < lines; l++) {
+    const start = base + l * lineStep;
+    let finite = false;
+    for (let q = 0; q < n; q++) {
+      const x = d2[start + q * step];
+      f[q] = x;
+      if (x !== Infinity) finite = true;
+    }
+    if (!finite) continue;
+    lowerEnvelope(f, n, w2, out, v, z);
+    for (let q = 0; q < n; q++) d2[start + q * step] = out[q];
+  }
+}
+
+/** 1-D squared distance transform of sampled function f with sample spacing² w2 (Felzenszwalb–Huttenlocher). */
+function lowerEnvelope(f: Float64Array, n: number, w2: number, out: Float64Array, v: Int32Array, z: Float64Array): void {
+  let k = -1;
+  for (let q = 0; q < n; q++) {
+    const fq = f[q];
+    if (fq === Infinity) continue;
+    if (k < 0) {
+      k = 0;
+      v[0] = q;
+      z[0] = -Infinity;
+      z[1] = Infinity;
+      continue;
+    }
+    let s: number;
+    for (;;) {
+      const p = v[k];
+      s = (fq + w2 * q * q - (f[p] + w2 * p * p)) / (2 * w2 * (q - p));
+      if (s <= z[k]) k--;
+      else break;
+    }
+    k++;
+    v[k] = q;
+    z[k] = s;
+    z[k + 1] = Infinity;
+  }
+  k = 0;
+  for (let q = 0; q < n; q++) {
+    while (z[k + 1] < q) k++;
+    const p = v[k];
+    out[q] = w2 * (q - p) * (q - p) + f[p];
+  }
+}
+
+/**
+ * Exact nearest pair between the lesion's voxel centres and the other segments' voxel centres in
+ * world mm, for grids that differ. Where a grid's axes are perpendicular a voxel's box is its Voronoi
+ * cell, so the nearest point of a voxel set to anything outside it lies on the set's face border:
+ * interior voxels of either set are dropped. A map voxel that falls inside a lesion voxel's box has
+ * that voxel as its nearest lesion point and is measured directly.
+ */
+function marginBySearch(mask: Volume, lesion: LesionVoxels, map: SegmentMap, own: SegmentIndex, capMm: number): MarginResult {
+  const lesionPts = lesionBorderPoints(mask, lesion);
+  const tree = new PointTree(lesionPts);
+  const labels = map.labels;
+  const [mx, my, mz] = labels.dims;
+  const seg = segmentLookup(map);
+  const isOther = (s: SegmentIndex) => s !== own && s !== BACKGROUND;
+  const mapBox = worldBoxOnGrid(mask, lesion.voxels, labels, capMm);
+  const mapOrthogonal = orthogonalColumns(labels.affine);
+  const maskOrthogonal = orthogonalColumns(mask.affine);
+  const [nx, ny, nz] = mask.dims;
+  const Mi = mask.inverse;
+  const A = labels.affine;
+  const B = mask.affine;
+
+  let best = capMm * capMm * (1 + 1e-12);
+  let bestSeg: SegmentIndex = BACKGROUND;
+  const borderOfOthers = (a: number, b: number, c: number, n: number) => {
+    if (!mapOrthogonal) return true;
+    if (a === 0 || b === 0 || c === 0 || a === mx - 1 || b === my - 1 || c === mz - 1) return true;
+    return !isOther(seg(n - 1)) || !isOther(seg(n + 1)) || !isOther(seg(n - mx)) || !isOther(seg(n + mx)) ||
+      !isOther(seg(n - mx * my)) || !isOther(seg(n + mx * my));
+  };
+  for (let c = mapBox.k0; c < mapBox.k0 + mapBox.bz; c++) {
+    for (let b = mapBox.j0; b < mapBox.j0 + mapBox.by; b++) {
+      for (let a = mapBox.i0; a < mapBox.i0 + mapBox.bx; a++) {
+        const n = a + mx * (b + my * c);
+        const s = seg(n);
+        if (!isOther(s) || !borderOfOthers(a, b, c, n)) continue;
+        const x = A[0] * a + A[1] * b + A[2] * c + A[3];
+        const y = A[4] * a + A[5] * b + A[6] * c + A[7];
+        const z = A[8] * a + A[9] * b + A[10] * c + A[11];
+        if (maskOrthogonal) {
+          const i = Math.round(Mi[0] * x + Mi[1] * y + Mi[2] * z + Mi[3]);
+          const j = Math.round(Mi[4] * x + Mi[5] * y + Mi[6] * z + Mi[7]);
+          const k = Math.round(Mi[8] * x + Mi[9] * y + Mi[10] * z + Mi[11]);
+          if (i >= 0 && j >= 0 && k >= 0 && i < nx && j < ny && k < nz && contains(lesion.voxels, i + nx * (j + ny * k))) {
+            const d2 = (B[0] * i + B[1] * j + B[2] * k + B[3] - x) ** 2 + (B[4] * i + B[5] * j + B[6] * k + B[7] - y) ** 2 +
+              (B[8] * i + B[9] * j + B[10] * k + B[11] - z) ** 2;
+            if (d2 < best) {
+              best = d2;
+              bestSeg = s;
+            }
+            continue;
+          }
+        }
+        const hit = tree.nearest(x, y, z, best);
+        if (hit.index >= 0) {
+          best = hit.d2;
+          bestSeg = s;
+        }
+      }
+    }
+  }
+  return bestSeg === BACKGROUND ? NONE : { marginMm: Math.sqrt(best), nearestOtherSegment: segmentName(bestSeg) };
+}
+
+/** World centres of the lesion's voxels that have a face neighbour outside it (all voxels on a skewed grid). */
+function lesionBorderPoints(mask: Volume, lesion: LesionVoxels): Float64Array {
+  const [nx, ny, nz] = mask.dims;
+  const data = mask.data;
+  const value = lesion.storedValue;
+  const all = !orthogonalColumns(mask.affine);
+  const A = mask.affine;
+  const out: number[] = [];
+  for (let t = 0; t < lesion.voxels.length; t++) {
+    const n = lesion.voxels[t];
+    const i = n % nx;
+    const j = ((n - i) / nx) % ny;
+    const k = (n - i - nx * j) / (nx * ny);
+    // A face neighbour with the lesion's value is part of this lesion (26-connected or same label).
+    const border = all || i === 0 || j === 0 || k === 0 || i === nx - 1 || j === ny - 1 || k === nz - 1 ||
+      data[n - 1] !== value || data[n + 1] !== value || data[n - nx] !== value || data[n + nx] !== value ||
+      data[n - nx * ny] !== value || data[n + nx * ny] !== value;
+    if (!border) continue;
+    out.push(A[0] * i + A[1] * j + A[2] * k + A[3], A[4] * i + A[5] * j + A[6] * k + A[7], A[8] * i + A[9] * j + A[10] * k + A[11]);
+  }
+  return Float64Array.from(out);
+}
+
+/**
+ * Box on `grid` holding every point within `mm` of the voxels' centres: the world bounding box of the
+ * voxels' index box, grown by `mm`, mapped to `grid` indices and clipped.
+ */
+function worldBoxOnGrid(mask: Volume, voxels: Uint32Array, grid: Volume, mm: number): Box {
+  const b = lesionBox(mask.dims, voxels, [0, 0, 0]);
+  const lo = [Infinity, Infinity, Infinity], hi = [-Infinity, -Infinity, -Infinity];
+  const A = mask.affine;
+  for (const i of [b.i0, b.i0 + b.bx - 1]) {
+    for (const j of [b.j0, b.j0 + b.by - 1]) {
+      for (const k of [b.k0, b.k0 + b.bz - 1]) {
+        for (let r = 0; r < 3; r++) {
+          const w = A[4 * r] * i + A[4 * r + 1] * j + A[4 * r + 2] * k + A[4 * r + 3];
+          lo[r] = Math.min(lo[r], w - mm);
+          hi[r] = Math.max(hi[r], w + mm);
+        }
+      }
+    }
+  }
+  const glo = [Infinity, Infinity, Infinity], ghi = [-Infinity, -Infinity, -Infinity];
+  const G = grid.inverse;
+  for (const x of [lo[0], hi[0]]) {
+    for (const y of [lo[1], hi[1]]) {
+      for (const z of [lo[2], hi[2]]) {
+        for (let r = 0; r < 3; r++) {
+          const u = G[4 * r] * x + G[4 * r + 1] * y + G[4 * r + 2] * z + G[4 * r + 3];
+          glo[r] = Math.min(glo[r], u);
+          ghi[r] = Math.max(ghi[r], u);
+        }
+      }
+    }
+  }
+  const [gx, gy, gz] = grid.dims;
+  const i0 = Math.max(0, Math.ceil(glo[0])), i1 = Math.min(gx - 1, Math.floor(ghi[0]));
+  const j0 = Math.max(0, Math.ceil(glo[1])), j1 = Math.min(gy - 1, Math.floor(ghi[1]));
+  const k0 = Math.max(0, Math.ceil(glo[2])), k1 = Math.min(gz - 1, Math.floor(ghi[2]));
+  return { i0, j0, k0, bx: Math.max(0, i1 - i0 + 1), by: Math.max(0, j1 - j0 + 1), bz: Math.max(0, k1 - k0 + 1) };
+}
+
+/** Binary search in an ascending list. */
+function contains(sorted: Uint32Array, x: number): boolean {
+  let lo = 0, hi = sorted.length - 1;
+  while (lo <= hi) {
+    const mid = (lo + hi) >> 1;
+    const v = sorted[mid];
+    if (v === x) return true;
+    if (v < x) lo = mid + 1;
+    else hi = mid - 1;
+  }
+  return false;
+}
