@@ -1,0 +1,388 @@
+import type { Vec3 } from '../geometry/mat4.js';
+import { applyRigid, invertRigid } from '../geometry/rigid.js';
+import { badInput } from '../errors.js';
+import type { LandmarkSet } from '../segments/landmarks.js';
+import type { SegmentName } from '../segments/segment-map.js';
+import type { Volume } from '../volume/volume.js';
+import { alignVisit, referenceAlignment, type Alignment, type AlignmentMethod } from './align.js';
+import { burdenBySegment, round2, type BurdenRow } from './burden.js';
+import { compareIds } from './ids.js';
+import { describeLiver, insideGrid, type LiverShape } from './liver-shape.js';
+import { mrecistTargetCategory, selectViableTargets, viableFromComponents, type ViableComponent } from './mrecist.js';
+import {
+  isMeasurable,
+  MAX_TARGETS_PER_ORGAN,
+  nonTargetCategory,
+  round1,
+  selectTargets,
+  type NonTargetCategory,
+  type OverallCategory,
+  type TargetObservation,
+} from './recist.js';
+import { responseSeries, type Criteria, type VisitResponse } from './response.js';
+import { buildTracks, type LinkHow, type Override, type Track, type TrackStatus } from './tracks.js';
+
+/**
+ * A patient's visits followed together: alignment to the baseline, lesion tracks, response per
+ * visit (RECIST 1.1, and mRECIST where viable-tumour diameters are given), burden per segment.
+ * The shape of the result is the `followup --json` contract, with extra fields added, never changed.
+ *
+ * - The baseline is the first visit by date; it gets its sums and a null category.
+ * - `newLesions`: tracks first seen at the visit; `goneLesions`: tracks seen before and absent now
+ *   (merged ones excepted, they live on in the lesion they joined); `notEvaluable`: absent tracks
+ *   whose last position lies outside the visit's scanned field. All are track ids.
+ * - A track's `longestAxialMm` at a visit is the sum over its fragments as measured; the response's
+ *   `targets` list the RECIST-recorded value (5 mm for too small, 0 for gone or merged).
+ * - Matching allowance grows with the alignment residual, and by a fixed 20 mm for an unaligned visit.
+ */
+
+/** What follow-up needs of a lesion; an analysed visit's lesion results fit as they are. */
+export interface FollowupLesion {
+  id: string;
+  centroidMm: Vec3;
+  segment: SegmentName | null;
+  longestAxialMm: number;
+  volumeMl: number | null;
+  marginAlert: boolean;
+  /** When given, the alert is recomputed against the follow-up's margin. */
+  marginMm?: number | null;
+  /** Longest viable (arterially enhancing) diameter, from a mark; undefined or null when not given. */
+  viableAxialMm?: number | null;
+}
+
+export interface FollowupVisit {
+  id: string;
+  /** ISO 8601 date. */
+  date: string;
+  lesions: readonly FollowupLesion[];
+  landmarks?: LandmarkSet;
+  /** Liver mask (or its shape, already described) for alignment and field-of-view checks. */
+  liver?: Volume | LiverShape | null;
+  /** Slice thickness for the measurability rule; the axial voxel step when nothing better is known. */
+  sliceThicknessMm: number;
+  /** Components of a viable-tumour mask, in this visit's world space, for mRECIST. */
+  viable?: { components: readonly ViableComponent[] };
+  /** A reader judged the non-target disease to have progressed unequivocally at this visit. */
+  nonTargetProgression?: boolean;
+}
+
+export interface FollowupOptions {
+  /** Target tracks named by the user ("T1", …); default RECIST 1.1 selection otherwise. */
+  targets?: readonly string[];
+  overrides?: readonly Override[];
+  marginMm: number;
+  criteria?: Criteria;
+}
+
+export interface VisitAlignmentSummary {
+  method: AlignmentMethod;
+  residualMm: number | null;
+  rotationDeg: number;
+  warnings: string[];
+}
+
+export interface VisitFollowup {
+  id: string;
+  date: string;
+  /** Under the primary criteria. */
+  response: VisitResponse;
+  /** The same visit under the other criteria, where computed (mRECIST beside RECIST 1.1 or the reverse). */
+  otherResponses: VisitResponse[];
+  overall: OverallCategory | null;
+  nonTarget: { category: NonTargetCategory | null; tracks: string[]; readerProgression: boolean };
+  newLesions: string[];
+  goneLesions: string[];
+  notEvaluable: string[];
+  marginAlerts: string[];
+  alignment: VisitAlignmentSummary;
+}
+
+export interface TrackSummary {
+  id: string;
+  lesions: Record<string, string>;
+  segments: Record<string, SegmentName | null>;
+  longestAxialMm: Record<string, number>;
+  target: boolean;
+  firstVisit: string;
+  status: Record<string, TrackStatus>;
+  how: Record<string, LinkHow>;
+  volumeMl: Record<string, number | null>;
+  fragments?: Record<string, string[]>;
+  mergedInto?: Record<string, string>;
+  viableAxialMm?: Record<string, number | null>;
+  segmentChanged: boolean;
+  segmentChanges: { visit: string; from: SegmentName | null; to: SegmentName | null }[];
+}
+
+export interface FollowupResult {
+  criteria: Criteria;
+  marginMm: number;
+  targets: { tracks: string[]; source: 'named' | 'default' };
+  visits: VisitFollowup[];
+  tracks: TrackSummary[];
+  burden: BurdenRow[];
+  warnings: string[];
+  notes: string[];
+}
+
+/** Matching allowance when a visit could not be aligned at all, mm. */
+export const UNALIGNED_SLACK_MM = 20;
+/** Matching allowance per mm of alignment residual. */
+export const RESIDUAL_SLACK_FACTOR = 2;
+
+export const FOLLOWUP_NOTES = [
+  'Non-target progression ("unequivocal progression", RECIST 1.1) is a reader\'s judgement: it is PD here only when a reader flags it.',
+  'Every lesion first seen after baseline counts as a new lesion (PD); a reader can link it to an existing track instead.',
+  'Targets present but measured under 5 mm are recorded as 5 mm (too small to measure); vanished or merged targets as 0 mm.',
+];
+
+export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptions): FollowupResult {
+  if (input.length === 0) throw badInput('follow-up', 'needs at least one visit');
+  const seen = new Set<string>();
+  for (const v of input) {
+    if (seen.has(v.id)) throw badInput('follow-up', `visit id ${v.id} occurs twice`);
+    seen.add(v.id);
+  }
+  const visits = [...input].sort((a, b) => a.date.localeCompare(b.date));
+  const warnings: string[] = [];
+
+  // Alignment of every visit to the baseline.
+  const shapes = visits.map((v) => (v.liver ? ('dims' in v.liver && 'data' in v.liver ? describeLiver(v.liver) : v.liver) : null));
+  const alignments: Alignment[] = visits.map((v, k) =>
+    k === 0 ? referenceAlignment() : alignVisit({ landmarks: v.landmarks, liver: shapes[k] }, { landmarks: visits[0].landmarks, liver: shapes[0] }, v.id),
+  );
+  for (const a of alignments) warnings.push(...a.warnings);
+
+  // Tracks.
+  const lesionIndex = visits.map((v) => new Map(v.lesions.map((l) => [l.id, l])));
+  const tracking = buildTracks(
+    visits.map((v, k) => {
+      const a = alignments[k];
+      const shape = shapes[k];
+      const back = invertRigid(a.transform);
+      return {
+        id: v.id,
+        lesions: v.lesions.map((l) => ({ id: l.id, centreMm: applyRigid(a.transform, l.centroidMm), longestAxialMm: l.longestAxialMm })),
+        slackMm: a.method === 'none' ? UNALIGNED_SLACK_MM : RESIDUAL_SLACK_FACTOR * (a.residualMm ?? 0),
+        inView: shape ? (p: Vec3) => insideGrid(shape, applyRigid(back, p)) : undefined,
+      };
+    }),
+    opts.overrides ?? [],
+  );
+  warnings.push(...tracking.warnings);
+  const tracks = tracking.tracks;
+  const trackById = new Map(tracks.map((t) => [t.id, t]));
+  const lesionsAt = (t: Track, k: number): FollowupLesion[] => (t.visits[k]?.lesions ?? []).map((id) => lesionIndex[k].get(id)!);
+  const measuredAt = (t: Track, k: number) => lesionsAt(t, k).reduce((s, l) => s + l.longestAxialMm, 0);
+  const baselineTracks = tracks.filter((t) => t.firstVisit === 0);
+
+  // Viable diameters per lesion, where a visit gives them.
+  const viable = visits.map((v) => {
+    if (v.viable) {
+      const r = viableFromComponents(v.lesions, v.viable.components);
+      if (r.unassigned > 0) warnings.push(`visit ${v.id}: ${r.unassigned} viable-tumour region(s) lie outside every lesion and are not counted`);
+      return r.viable as Map<string, number | null>;
+    }
+    const m = new Map<string, number | null>();
+    for (const l of v.lesions) if (l.viableAxialMm !== undefined && l.viableAxialMm !== null) m.set(l.id, l.viableAxialMm);
+    return m.size > 0 ? m : null;
+  });
+  const viableAt = (t: Track, k: number): number | null => {
+    const map = viable[k];
+    if (!map) return null;
+    let sum = 0;
+    for (const id of t.visits[k]?.lesions ?? []) {
+      const x = map.get(id);
+      if (x === undefined || x === null) return null;
+      sum += x;
+    }
+    return sum;
+  };
+
+  // Criteria and targets.
+  let criteria: Criteria = opts.criteria ?? 'RECIST 1.1';
+  const hasViableBaseline = viable[0] !== null;
+  if (criteria === 'mRECIST' && !hasViableBaseline) {
+    warnings.push('mRECIST asked for, but the baseline visit gives no viable-tumour diameters; RECIST 1.1 used instead');
+    criteria = 'RECIST 1.1';
+  }
+  const named = opts.targets && opts.targets.length > 0 ? [...opts.targets] : null;
+  if (named) validateNamedTargets(named, baselineTracks, (t) => measuredAt(t, 0), visits[0].sliceThicknessMm, warnings);
+  const recistTargets =
+    named ??
+    selectTargets(
+      baselineTracks.map((t) => ({ id: t.id, longestMm: measuredAt(t, 0), measurable: isMeasurable(measuredAt(t, 0), visits[0].sliceThicknessMm) })),
+    );
+  const mrecistTargets = hasViableBaseline
+    ? named ??
+      selectViableTargets(
+        baselineTracks.map((t) => ({
+          id: t.id,
+          longestMm: measuredAt(t, 0),
+          measurable: isMeasurable(measuredAt(t, 0), visits[0].sliceThicknessMm),
+          viableMm: viableAt(t, 0),
+        })),
+      )
+    : [];
+  const primaryTargets = criteria === 'mRECIST' ? mrecistTargets : recistTargets;
+
+  // Non-target state and new lesions per visit (shared by both criteria).
+  const nonTargetTracks = (targets: readonly string[]) => baselineTracks.filter((t) => !targets.includes(t.id));
+  const nonTargetSeries = (targets: readonly string[]): NonTargetCategory[] =>
+    visits.map((v, k) => {
+      const nts = nonTargetTracks(targets);
+      const status = nts.map((t) => t.visits[k]!.status);
+      return nonTargetCategory({
+        total: nts.length,
+        // A non-target merged into another lesion persists inside it.
+        present: status.filter((s) => s === 'present' || s === 'merged').length,
+        notEvaluable: status.filter((s) => s === 'not-evaluable').length,
+        readerProgression: v.nonTargetProgression === true,
+      });
+    });
+  const newLesion = visits.map((_, k) => k > 0 && tracks.some((t) => t.firstVisit === k));
+
+  const observe = (t: Track, k: number, value: (t: Track, k: number) => number | null): TargetObservation => {
+    const s = t.visits[k]!.status;
+    if (s === 'not-evaluable') return { kind: 'not-evaluable' };
+    if (s !== 'present') return { kind: 'vanished' };
+    const x = value(t, k);
+    if (x === null) return { kind: 'not-evaluable' };
+    return { kind: 'measured', longestMm: x };
+  };
+  const recist = responseSeries({
+    criteria: 'RECIST 1.1',
+    targets: recistTargets,
+    observations: visits.map((_, k) => recistTargets.map((id) => observe(trackById.get(id)!, k, measuredAt))),
+    nonTarget: nonTargetSeries(recistTargets),
+    newLesion,
+  });
+  const mrecist = hasViableBaseline
+    ? responseSeries({
+        criteria: 'mRECIST',
+        targets: mrecistTargets,
+        observations: visits.map((_, k) =>
+          mrecistTargets.map((id) => {
+            const o = observe(trackById.get(id)!, k, viableAt);
+            // No viable tumour left in a present lesion is a vanished target for mRECIST.
+            return o.kind === 'measured' && o.longestMm <= 0 ? { kind: 'vanished' } : o;
+          }),
+        ),
+        nonTarget: nonTargetSeries(mrecistTargets),
+        newLesion,
+        categorise: mrecistTargetCategory,
+      })
+    : null;
+  if (hasViableBaseline && mrecistTargets.length === 0) warnings.push('mRECIST: no measurable lesion with viable tumour at baseline to serve as target');
+
+  // Per-visit summaries.
+  const primaryNonTarget = nonTargetTracks(primaryTargets).map((t) => t.id);
+  const outVisits: VisitFollowup[] = visits.map((v, k) => {
+    const primary = criteria === 'mRECIST' && mrecist ? mrecist[k] : recist[k];
+    const otherResponses = criteria === 'mRECIST' ? [recist[k]] : mrecist ? [mrecist[k]] : [];
+    const withStatus = (s: TrackStatus) => tracks.filter((t) => t.visits[k]?.status === s).map((t) => t.id);
+    const a = alignments[k];
+    return {
+      id: v.id,
+      date: v.date,
+      response: primary,
+      otherResponses,
+      overall: primary.category,
+      nonTarget: { category: primary.nonTargetCategory, tracks: primaryNonTarget, readerProgression: v.nonTargetProgression === true },
+      newLesions: k > 0 ? tracks.filter((t) => t.firstVisit === k).map((t) => t.id) : [],
+      goneLesions: withStatus('gone'),
+      notEvaluable: withStatus('not-evaluable'),
+      marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => alerts(l, opts.marginMm))).map((t) => t.id),
+      alignment: { method: a.method, residualMm: a.residualMm === null ? null : round2(a.residualMm), rotationDeg: round2(a.rotationDeg), warnings: a.warnings },
+    };
+  });
+
+  const outTracks = tracks.map((t) => summariseTrack(t, visits, lesionsAt, viable.some((m) => m !== null) ? viableAt : null, primaryTargets));
+
+  return {
+    criteria,
+    marginMm: opts.marginMm,
+    targets: { tracks: primaryTargets, source: named ? 'named' : 'default' },
+    visits: outVisits,
+    tracks: outTracks,
+    burden: burdenBySegment(visits.map((v) => ({ id: v.id, lesions: v.lesions }))),
+    warnings,
+    notes: FOLLOWUP_NOTES,
+  };
+}
+
+function alerts(l: FollowupLesion, marginMm: number): boolean {
+  if (l.marginMm === undefined) return l.marginAlert;
+  return l.marginMm !== null && l.marginMm < marginMm;
+}
+
+function validateNamedTargets(
+  named: readonly string[],
+  baselineTracks: readonly Track[],
+  measured: (t: Track) => number,
+  sliceThicknessMm: number,
+  warnings: string[],
+): void {
+  const known = baselineTracks.map((t) => t.id);
+  for (const id of named) {
+    const t = baselineTracks.find((x) => x.id === id);
+    if (!t) {
+      throw badInput('targets', `${id} is not a lesion track seen at the baseline visit (tracks there: ${known.join(', ') || 'none'})`);
+    }
+    if (!isMeasurable(measured(t), sliceThicknessMm)) {
+      warnings.push(`target ${id} is not measurable at baseline (${round1(measured(t))} mm); RECIST 1.1 takes measurable lesions as targets`);
+    }
+  }
+  if (new Set(named).size !== named.length) throw badInput('targets', 'names a track more than once');
+  if (named.length > MAX_TARGETS_PER_ORGAN) {
+    warnings.push(`${named.length} targets named; RECIST 1.1 takes at most ${MAX_TARGETS_PER_ORGAN} per organ, and the liver is one organ`);
+  }
+}
+
+function summariseTrack(
+  t: Track,
+  visits: readonly FollowupVisit[],
+  lesionsAt: (t: Track, k: number) => FollowupLesion[],
+  viableAt: ((t: Track, k: number) => number | null) | null,
+  targets: readonly string[],
+): TrackSummary {
+  const out: TrackSummary = {
+    id: t.id,
+    lesions: {},
+    segments: {},
+    longestAxialMm: {},
+    target: targets.includes(t.id),
+    firstVisit: visits[t.firstVisit].id,
+    status: {},
+    how: {},
+    volumeMl: {},
+    segmentChanged: false,
+    segmentChanges: [],
+  };
+  let lastSegment: SegmentName | null | undefined;
+  visits.forEach((v, k) => {
+    const at = t.visits[k];
+    if (!at) return;
+    out.status[v.id] = at.status;
+    if (at.mergedInto) (out.mergedInto ??= {})[v.id] = at.mergedInto;
+    if (at.status === 'not-evaluable') return;
+    const ls = lesionsAt(t, k);
+    out.longestAxialMm[v.id] = round1(ls.reduce((s, l) => s + l.longestAxialMm, 0));
+    if (at.status !== 'present') return;
+    if (at.how) out.how[v.id] = at.how;
+    out.lesions[v.id] = ls[0].id;
+    out.segments[v.id] = ls[0].segment;
+    if (ls.length > 1) (out.fragments ??= {})[v.id] = ls.map((l) => l.id).sort(compareIds);
+    out.volumeMl[v.id] = ls.some((l) => l.volumeMl === null) ? null : round2(ls.reduce((s, l) => s + (l.volumeMl ?? 0), 0));
+    if (viableAt) {
+      const x = viableAt(t, k);
+      (out.viableAxialMm ??= {})[v.id] = x === null ? null : round1(x);
+    }
+    if (lastSegment !== undefined && ls[0].segment !== lastSegment) {
+      out.segmentChanged = true;
+      out.segmentChanges.push({ visit: v.id, from: lastSegment, to: ls[0].segment });
+    }
+    lastSegment = ls[0].segment;
+  });
+  return out;
+}

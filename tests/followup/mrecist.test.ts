@@ -1,0 +1,99 @@
+import { describe, expect, it } from 'vitest';
+import { mrecistTargetCategory, selectViableTargets, viableFromComponents } from '../../src/followup/mrecist.js';
+import { runFollowup, type FollowupLesion, type FollowupVisit } from '../../src/followup/followup.js';
+
+// mRECIST for HCC: Lencioni and Llovet, Semin Liver Dis 2010;30:52-60 (recalled from memory): the
+// RECIST response categories measured on the longest diameter of viable tumour, i.e. tumour that
+// enhances in the arterial phase. CR: disappearance of intratumoral arterial enhancement in all
+// targets; PR: at least 30% decrease in the sum of viable diameters from baseline; PD: at least 20%
+// increase over the smallest viable sum since treatment started. Falciform applies RECIST 1.1's
+// 5 mm absolute floor to PD too, as its product brief asks for the same thresholds.
+
+function lesion(id: string, centre: [number, number, number], longestAxialMm: number, viableAxialMm: number | null): FollowupLesion {
+  return { id, centroidMm: centre, segment: 'VI', longestAxialMm, volumeMl: null, marginAlert: false, viableAxialMm };
+}
+
+function visit(id: string, date: string, lesions: FollowupLesion[]): FollowupVisit {
+  return { id, date, lesions, sliceThicknessMm: 2.5 };
+}
+
+describe('mRECIST target categories', () => {
+  it('uses the same thresholds on viable sums', () => {
+    // Baseline viable 30 + 20 = 50 mm; 35 mm: −30% → PR.
+    expect(mrecistTargetCategory({ sumMm: 35, baselineMm: 50, nadirMm: 50, complete: true })).toBe('PR');
+    // Viable nadir 20 mm; 24 mm: +20% but +4 mm → SD under the shared floor.
+    expect(mrecistTargetCategory({ sumMm: 24, baselineMm: 30, nadirMm: 20, complete: true })).toBe('SD');
+    // Nadir 25; 30: +20% and +5 mm → PD.
+    expect(mrecistTargetCategory({ sumMm: 30, baselineMm: 30, nadirMm: 25, complete: true })).toBe('PD');
+    // No viable tumour in any target → CR.
+    expect(mrecistTargetCategory({ sumMm: 0, baselineMm: 30, nadirMm: 30, complete: true })).toBe('CR');
+  });
+
+  it('chooses measurable lesions that enhance, largest viable diameter first', () => {
+    // Source: mRECIST target lesions must be RECIST-measurable and show intratumoral arterial enhancement.
+    expect(
+      selectViableTargets([
+        { id: 'T1', longestMm: 50, measurable: true, viableMm: 0 },
+        { id: 'T2', longestMm: 25, measurable: true, viableMm: 18 },
+        { id: 'T3', longestMm: 30, measurable: true, viableMm: 22 },
+        { id: 'T4', longestMm: 8, measurable: false, viableMm: 8 },
+      ]),
+    ).toEqual(['T3', 'T2']);
+  });
+
+  it('gives viable-mask regions to the lesion that holds them, longest region per lesion', () => {
+    const { viable, unassigned } = viableFromComponents(
+      [
+        { id: 'L1', centroidMm: [0, 0, 0], longestAxialMm: 40 },
+        { id: 'L2', centroidMm: [100, 0, 0], longestAxialMm: 20 },
+      ],
+      [
+        { centroidMm: [10, 0, 0], longestAxialMm: 12 },
+        { centroidMm: [-8, 5, 0], longestAxialMm: 15 },
+        { centroidMm: [200, 0, 0], longestAxialMm: 9 },
+      ],
+    );
+    expect(viable.get('L1')).toBe(15);
+    expect(viable.get('L2')).toBe(0);
+    expect(unassigned).toBe(1);
+  });
+});
+
+describe('mRECIST through the follow-up', () => {
+  it('shows response to embolisation that RECIST 1.1 calls stable', () => {
+    // A 40 mm HCC with 32 mm viable tumour; after embolisation the lesion still measures 38 mm
+    // (RECIST: (38 − 40) / 40 = −5% → SD) but viable tumour is 12 mm ((12 − 32) / 32 = −62.5% → PR).
+    // Next visit no enhancement remains: mRECIST CR while RECIST is still SD.
+    const visits = [
+      visit('v1', '2026-01-10', [lesion('M1', [-60, 10, 0], 40, 32)]),
+      visit('v2', '2026-03-10', [lesion('M1', [-60, 10, 1], 38, 12)]),
+      visit('v3', '2026-05-10', [lesion('M1', [-61, 10, 0], 37, 0)]),
+    ];
+    const r = runFollowup(visits, { marginMm: 10, criteria: 'mRECIST' });
+    expect(r.criteria).toBe('mRECIST');
+    expect(r.visits[1].response).toMatchObject({ criteria: 'mRECIST', targetSumMm: 12, baselineSumMm: 32, changeFromBaselinePct: -62.5, category: 'PR' });
+    expect(r.visits[2].response).toMatchObject({ targetSumMm: 0, category: 'CR' });
+    const recist = r.visits.map((v) => v.otherResponses.find((x) => x.criteria === 'RECIST 1.1')!);
+    expect(recist[1]).toMatchObject({ targetSumMm: 38, changeFromBaselinePct: -5, category: 'SD' });
+    expect(recist[2].category).toBe('SD');
+    expect(r.tracks[0].viableAxialMm).toEqual({ v1: 32, v2: 12, v3: 0 });
+  });
+
+  it('is not evaluable where a later visit gives no viable diameter', () => {
+    const visits = [
+      visit('v1', '2026-01-10', [lesion('M1', [0, 0, 0], 30, 25)]),
+      visit('v2', '2026-03-10', [lesion('M1', [0, 0, 0], 30, null)]),
+    ];
+    const r = runFollowup(visits, { marginMm: 10, criteria: 'mRECIST' });
+    expect(r.visits[1].response.category).toBe('NE');
+    expect(r.visits[1].otherResponses[0]).toMatchObject({ criteria: 'RECIST 1.1', category: 'SD' });
+  });
+
+  it('falls back to RECIST 1.1, with a warning, when the baseline gives no viable tumour', () => {
+    const visits = [visit('v1', '2026-01-10', [lesion('M1', [0, 0, 0], 30, null)]), visit('v2', '2026-02-10', [lesion('M1', [0, 0, 0], 30, null)])];
+    const r = runFollowup(visits, { marginMm: 10, criteria: 'mRECIST' });
+    expect(r.criteria).toBe('RECIST 1.1');
+    expect(r.warnings.join(' ')).toMatch(/mRECIST/);
+    expect(r.visits[1].otherResponses).toHaveLength(0);
+  });
+});
