@@ -13,7 +13,7 @@ export const BODY_LANDMARKS = {
   ivc_inferior: [10, -35, -40] as Vec3,
   right_hepatic_vein: [80, 5, 45] as Vec3,
   middle_hepatic_vein: [5, 45, 42] as Vec3,
-  umbilical_fissure: [-35, 50, 22] as Vec3,
+  umbilical_fissure: [-60, 45, 22] as Vec3,
   portal_bifurcation: [20, -5, 0] as Vec3,
 };
 
@@ -60,7 +60,7 @@ const top: Vec3 = [IVC_XY[0], IVC_XY[1], 50];
 const veins: [Vec3, Vec3, number][] = [
   [top, [95, 14, 40], 4.5],
   [top, [2, 70, 36], 4],
-  [top, [-45, 62, 18], 3.5],
+  [top, [-75, 62, 18], 3.5],
   [BODY_LANDMARKS.portal_bifurcation, [75, 0, -4], 5],
   [BODY_LANDMARKS.portal_bifurcation, [-40, 35, 8], 4.5],
   [BODY_LANDMARKS.portal_bifurcation, [15, -20, -70], 6],

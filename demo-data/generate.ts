@@ -18,9 +18,9 @@ import { BODY_LANDMARKS, HU, inBody, inCaudate, inIvc, inLesion, inLiver, inSpin
 import { borderDistancesMm, patients, SEED, type DemoPatient, type DemoVisit } from './scenario.js';
 
 const DIMS: Record<string, [number, number, number]> = {
-  'DEMO-0001': [100, 80, 44],
-  'DEMO-0002': [106, 84, 44],
-  'DEMO-0003': [102, 82, 55],
+  'DEMO-0001': [138, 110, 44],
+  'DEMO-0002': [144, 116, 44],
+  'DEMO-0003': [138, 110, 55],
 };
 
 /** mulberry32: small, fast, and the same numbers on every platform. */

@@ -63,7 +63,7 @@ export const patients: DemoPatient[] = [
     birthYear: 1958, heightCm: 176, weightKg: 82, sex: 'male',
     criteria: 'RECIST 1.1',
     liverHu: 105, noiseHu: 12,
-    spacingMm: [3.6, 3.6, 5], flipX: false, tiltDeg: 0,
+    spacingMm: [2.6, 2.6, 5], flipX: false, tiltDeg: 0,
     visits: [
       { id: 'v1', date: '2026-01-12', segmentsFrom: 'map', lesionsFrom: 'mask', motion: { rotZDeg: 0, rotXDeg: 0, shiftMm: [0, 0, 0] } },
       { id: 'v2', date: '2026-03-09', segmentsFrom: 'landmarks', lesionsFrom: 'mask', motion: { rotZDeg: 3, rotXDeg: -1.5, shiftMm: [6, -4, 9] } },
@@ -73,7 +73,7 @@ export const patients: DemoPatient[] = [
     lesions: [
       { key: 'vii', segment: 'VII', centres: [[85, -30, 35]], diametersMm: [34, 22, 18, 16], hu: 45 },
       { key: 'v', segment: 'V', centres: [[45, 30, -28]], diametersMm: [27, 17, 14, 12], hu: 50 },
-      { key: 'ii', segment: 'II', centres: [[-62, 30, 26]], diametersMm: [16, 11, 9, 8], hu: 48 },
+      { key: 'ii', segment: 'II', centres: [[-75, 25, 26]], diametersMm: [16, 11, 9, 8], hu: 48 },
     ],
     treatments: [{ date: '2026-01-20', kind: 'therapy-start', label: 'First-line chemotherapy' }],
   },
@@ -87,7 +87,7 @@ export const patients: DemoPatient[] = [
     birthYear: 1953, heightCm: 164, weightKg: 71, sex: 'female',
     criteria: 'mRECIST',
     liverHu: 88, noiseHu: 15,
-    spacingMm: [3.4, 3.4, 5], flipX: true, tiltDeg: 0,
+    spacingMm: [2.5, 2.5, 5], flipX: true, tiltDeg: 0,
     visits: [
       { id: 'v1', date: '2026-02-02', segmentsFrom: 'landmarks', lesionsFrom: 'mask', motion: { rotZDeg: 0, rotXDeg: 0, shiftMm: [0, 0, 0] } },
       { id: 'v2', date: '2026-04-13', segmentsFrom: 'map', lesionsFrom: 'marks', motion: { rotZDeg: -3, rotXDeg: 1, shiftMm: [-7, 2, 8] } },
@@ -112,7 +112,7 @@ export const patients: DemoPatient[] = [
     birthYear: 1967, heightCm: 168, weightKg: 64, sex: 'female',
     criteria: 'RECIST 1.1',
     liverHu: 102, noiseHu: 11,
-    spacingMm: [3.5, 3.5, 4], flipX: false, tiltDeg: 8,
+    spacingMm: [2.6, 2.6, 4], flipX: false, tiltDeg: 8,
     visits: [
       { id: 'v1', date: '2026-01-19', segmentsFrom: 'map', lesionsFrom: 'labels', motion: { rotZDeg: 0, rotXDeg: 0, shiftMm: [0, 0, 0] } },
       { id: 'v2', date: '2026-04-20', segmentsFrom: 'landmarks', lesionsFrom: 'labels', motion: { rotZDeg: 2, rotXDeg: 1, shiftMm: [-4, 5, 7] } },
@@ -120,12 +120,12 @@ export const patients: DemoPatient[] = [
     ],
     lesions: [
       // Centres are placed relative to the VII/VIII border by the generator (see borderDistancesMm).
-      { key: 'border', segment: 'VIII', centres: [[0, 0, 0]], diametersMm: [16, 20, 28], hu: 52 },
-      { key: 'ivb', segment: 'IVb', centres: [[-16, 56, -24]], diametersMm: [11, 11, 11], hu: 48 },
+      { key: 'border', segment: 'VIII', centres: [[0, 0, 0]], diametersMm: [16, 18, 28], hu: 52 },
+      { key: 'ivb', segment: 'IVb', centres: [[-24, 48, -24]], diametersMm: [14, 14, 14], hu: 48 },
     ],
     treatments: [],
   },
 ];
 
 /** For DEMO-0003's border lesion: distance of its centre from the VII/VIII plane per visit, mm. */
-export const borderDistancesMm = [24, 17, 9];
+export const borderDistancesMm = [24, 14, 9];

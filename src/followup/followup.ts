@@ -240,7 +240,9 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
         readerProgression: v.nonTargetProgression === true,
       });
     });
-  const newLesion = visits.map((_, k) => k > 0 && tracks.some((t) => t.firstVisit === k));
+  // A lesion first seen after baseline stays a new lesion at every later visit where it is present:
+  // it was never part of the baseline burden, so it keeps the response at PD (RECIST 1.1 new-lesion rule).
+  const newLesion = visits.map((_, k) => k > 0 && tracks.some((t) => t.firstVisit > 0 && t.firstVisit <= k && t.visits[k]?.status === 'present'));
 
   const observe = (t: Track, k: number, value: (t: Track, k: number) => number | null): TargetObservation => {
     const s = t.visits[k]!.status;

@@ -31,10 +31,10 @@ export function parseMarks(text: string, file: string): Mark[] {
   }
   if (!isObject(json)) throw badFile(file, 'a marks file must be a JSON object with a "marks" list');
   if (json.space !== undefined && json.space !== 'RAS') {
-    throw badFile(file, `space is ${JSON.stringify(json.space)}; marks must be in world RAS coordinates ("RAS")`);
+    throw badFile(file, `space is ${describeValue(json.space)}; marks must be in world RAS coordinates ("RAS")`);
   }
   if (json.units !== undefined && json.units !== 'mm') {
-    throw badFile(file, `units are ${JSON.stringify(json.units)}; marks must be in millimetres ("mm")`);
+    throw badFile(file, `units are ${describeValue(json.units)}; marks must be in millimetres ("mm")`);
   }
   if (!Array.isArray(json.marks)) throw badFile(file, 'a marks file needs a list "marks"');
   const seen = new Set<string>();
@@ -106,4 +106,11 @@ function length(x: unknown, file: string, what: string): number {
 
 function isObject(x: unknown): x is Record<string, unknown> {
   return typeof x === 'object' && x !== null && !Array.isArray(x);
+}
+
+/** A short description of a JSON value for a message; nested values are not stringified (they may be deep). */
+function describeValue(v: unknown): string {
+  if (Array.isArray(v)) return 'a list';
+  if (v !== null && typeof v === 'object') return 'an object';
+  return JSON.stringify(v) ?? String(v);
 }

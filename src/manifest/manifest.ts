@@ -1,6 +1,9 @@
 import { z } from 'zod';
 import { badFile } from '../errors.js';
 
+// The app's Content-Security-Policy forbids eval; without this zod probes `new Function` and the page logs a violation.
+z.config({ jitless: true });
+
 /** An ISO 8601 calendar date (YYYY-MM-DD) that exists. */
 const isoDate = z.string().refine((s) => {
   if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) return false;

@@ -40,9 +40,9 @@ export function landmarkSetFromJson(json: unknown, file: string, where = ''): La
   const obj = json as Record<string, unknown>;
   // Points in LPS (the DICOM convention) would mirror the map left to right: refuse anything but RAS mm.
   if (obj.space !== undefined && obj.space !== 'RAS') {
-    throw badLandmarks(file, `${at}space is ${JSON.stringify(obj.space)}; landmark points must be in RAS (convert LPS by negating x and y)`);
+    throw badLandmarks(file, `${at}space is ${shown(obj.space)}; landmark points must be in RAS (convert LPS by negating x and y)`);
   }
-  if (obj.units !== undefined && obj.units !== 'mm') throw badLandmarks(file, `${at}units is ${JSON.stringify(obj.units)}; expected "mm"`);
+  if (obj.units !== undefined && obj.units !== 'mm') throw badLandmarks(file, `${at}units is ${shown(obj.units)}; expected "mm"`);
   const raw = obj.points;
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw badLandmarks(file, `${at}expected an object "points"`);
   const src = raw as Record<string, unknown>;
@@ -57,6 +57,15 @@ export function landmarkSetFromJson(json: unknown, file: string, where = ''): La
   }
   if (problems.length > 0) throw badLandmarks(file, at + problems.join('; '));
   return { points };
+}
+
+/**
+ * A wrong value as a message shows it. Lists and objects are named, not written out: JSON.stringify
+ * recurses, so a value nested a few thousand deep (which JSON.parse accepts) overflowed the stack.
+ */
+function shown(x: unknown): string {
+  if (Array.isArray(x)) return 'a list';
+  return typeof x === 'object' && x !== null ? 'an object' : JSON.stringify(x);
 }
 
 /**

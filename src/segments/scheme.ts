@@ -41,7 +41,10 @@ export function parseScheme(text: string, file: string): SegmentScheme {
     if (key.trim() === '' || !Number.isInteger(value)) throw badFile(file, `label value "${key}" is not a whole number`);
     if (value === 0) throw badFile(file, 'label value 0 is background and cannot name a segment');
     if (typeof name !== 'string' || !isSegmentName(name)) {
-      throw badFile(file, `label ${key}: unknown segment name ${JSON.stringify(name)} (expected one of I, II, III, IV, IVa, IVb, V, VI, VII, VIII)`);
+      // Lists and objects are named, not written out: JSON.stringify recurses, and a value nested a
+      // few thousand deep (which JSON.parse accepts) overflowed the stack.
+      const shown = Array.isArray(name) ? 'a list' : typeof name === 'object' && name !== null ? 'an object' : JSON.stringify(name);
+      throw badFile(file, `label ${key}: unknown segment name ${shown} (expected one of I, II, III, IV, IVa, IVb, V, VI, VII, VIII)`);
     }
     scheme.set(value, name);
   }

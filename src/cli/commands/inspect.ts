@@ -1,6 +1,8 @@
+import { isFalciformError, tooLarge } from '../../errors.js';
 import { toRows } from '../../geometry/mat4.js';
+import { DEFAULT_MAX_BYTES } from '../../volume/nifti-read.js';
 import type { Volume } from '../../volume/volume.js';
-import { UsageError, parseArgs } from '../args.js';
+import { UsageError, numberOption, parseArgs } from '../args.js';
 import type { Command } from '../commands.js';
 import { loadVolume } from '../node-io.js';
 
@@ -35,12 +37,22 @@ function tidyMm(x: number): number {
 
 export const inspect: Command = {
   summary: 'header facts of a NIfTI-1/NIfTI-2 image (.nii, .nii.gz, .hdr/.img)',
-  usage: 'falciform inspect FILE [--json]',
+  usage: 'falciform inspect FILE [--json] [--max-voxel-mib N]',
   async run(argv) {
-    const args = parseArgs(argv, [], ['json']);
+    const args = parseArgs(argv, ['max-voxel-mib'], ['json']);
     if (args.positional.length !== 1) throw new UsageError('give exactly one image file');
     const file = args.positional[0];
-    const { info, volume, warnings } = await loadVolume(file);
+    const mib = numberOption(args, 'max-voxel-mib', DEFAULT_MAX_BYTES / 1024 ** 2);
+    if (mib <= 0) throw new UsageError('--max-voxel-mib must be a positive number of MiB');
+    let loaded;
+    try {
+      loaded = await loadVolume(file, { maxBytes: Math.floor(mib * 1024 ** 2) });
+    } catch (e) {
+      // The core does not know how the budget was set; the command line says how to raise it.
+      if (isFalciformError(e) && e.kind === 'too-large') throw tooLarge(e.file, `${e.problem}; raise it with --max-voxel-mib N`);
+      throw e;
+    }
+    const { info, volume, warnings } = loaded;
     const { min, max } = valueRange(volume);
     const out = {
       file,
