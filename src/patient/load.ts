@@ -1,0 +1,169 @@
+import { badFile, isFalciformError } from '../errors.js';
+import { describeLiver, type LiverShape } from '../followup/liver-shape.js';
+import { runFollowup, type FollowupResult, type FollowupVisit } from '../followup/followup.js';
+import type { ViableComponent } from '../followup/mrecist.js';
+import { lesionsFromMask } from '../lesions/components.js';
+import { parseMarks } from '../lesions/marks.js';
+import { measureMaskLesion } from '../lesions/measures.js';
+import type { Manifest, ManifestVisit } from '../manifest/manifest.js';
+import { buildSegmentMap } from '../segments/build.js';
+import { importSegmentMap } from '../segments/import.js';
+import { parseLandmarks, type LandmarkSet } from '../segments/landmarks.js';
+import { parseScheme } from '../segments/scheme.js';
+import type { SegmentMap } from '../segments/segment-map.js';
+import { analyzeVisit, type VisitAnalysis } from '../visit/analyze.js';
+import type { LoadedNifti } from '../volume/nifti-read.js';
+import { axialAxis, type Volume } from '../volume/volume.js';
+
+/**
+ * Reads every file a patient's study manifest names, and analyses each visit as `falciform analyze`
+ * would, with the manifest's margin. Files come through a `PatientFiles` source: the file system for
+ * the command line, the local store for the app, so both give the same numbers. Visits are read one at a time and only what follow-up needs is kept
+ * (the analysis, the landmark set, the liver's shape), so a long series does not hold every scan in
+ * memory. Any bad file stops the load with an error naming that file.
+ */
+export interface LoadedVisit {
+  manifest: ManifestVisit;
+  analysis: VisitAnalysis;
+  /** The visit as runFollowup takes it. */
+  followup: FollowupVisit;
+  /** Files and reading warnings, analysis warnings included. */
+  warnings: string[];
+  /** The files read, by role (scan, segments, liver, …), as resolved against the manifest. */
+  files: Record<string, string>;
+  /** The visit's segment map, only when asked for with keepSegmentMaps. */
+  segmentMap?: SegmentMap;
+}
+
+export interface LoadedPatient {
+  manifest: Manifest;
+  manifestFile: string;
+  visits: LoadedVisit[];
+}
+
+/** Where a manifest's files come from; paths are as written in the manifest. */
+export interface PatientFiles {
+  /** The name to show in messages for a manifest path (a file path, or the imported file's name). */
+  name(path: string): string;
+  volume(path: string): Promise<LoadedNifti>;
+  text(path: string): Promise<string>;
+}
+
+export interface LoadOptions {
+  /** Keep each visit's segment map (large: one byte per voxel). */
+  keepSegmentMaps?: boolean;
+}
+
+export async function loadPatientFrom(
+  manifest: Manifest,
+  manifestFile: string,
+  source: PatientFiles,
+  opts: LoadOptions = {},
+): Promise<LoadedPatient> {
+  const visits: LoadedVisit[] = [];
+  for (const v of manifest.visits) visits.push(await loadVisit(manifestFile, manifest, v, source, opts));
+  return { manifest, manifestFile, visits };
+}
+
+async function loadVisit(
+  manifestPath: string,
+  manifest: Manifest,
+  v: ManifestVisit,
+  source: PatientFiles,
+  opts: LoadOptions,
+): Promise<LoadedVisit> {
+  const path = (rel: string) => source.name(rel);
+  const files: Record<string, string> = {};
+  const warnings: string[] = [];
+  const volume = async (role: string, rel: string): Promise<Volume> => {
+    files[role] = path(rel);
+    const loaded = await source.volume(rel);
+    warnings.push(...loaded.warnings);
+    return loaded.volume;
+  };
+  const text = async (role: string, rel: string): Promise<string> => {
+    files[role] = path(rel);
+    return source.text(rel);
+  };
+
+  const scan = await volume('scan', v.scan);
+  const axis = axialAxis(scan.affine);
+  const sliceThicknessMm = scan.spacingMm[axis];
+
+  let segments: SegmentMap;
+  let landmarks: LandmarkSet | undefined;
+  let liver: LiverShape | null;
+  if (v.segments !== undefined) {
+    const labels = await volume('segments', v.segments);
+    const scheme = v.scheme === undefined || v.scheme === 'default' ? 'default' : parseScheme(await text('scheme', v.scheme), path(v.scheme));
+    const imported = importSegmentMap(labels, scheme, files.segments);
+    warnings.push(...imported.warnings);
+    segments = imported.map;
+    // Every labelled voxel is liver: the map's own outline serves for alignment.
+    liver = describeLiver(labels);
+  } else {
+    const liverVolume = await volume('liver', v.liver as string);
+    landmarks = parseLandmarks(await text('landmarks', v.landmarks as string), path(v.landmarks as string));
+    const caudate = v.caudate !== undefined ? await volume('caudate', v.caudate) : undefined;
+    const built = buildSegmentMap(liverVolume, landmarks, {
+      caudate,
+      splitIV: v.splitIV,
+      file: files.landmarks,
+      liverFile: files.liver,
+      caudateFile: files.caudate,
+    });
+    warnings.push(...built.warnings);
+    segments = built.map;
+    liver = describeLiver(liverVolume);
+  }
+  if (liver === null) throw badFile(files.segments ?? files.liver, 'holds no liver voxels');
+
+  const lesionMask = v.lesions !== undefined ? await volume('lesions', v.lesions) : undefined;
+  const marks = v.marks !== undefined ? parseMarks(await text('marks', v.marks), path(v.marks)) : undefined;
+  let analysis: VisitAnalysis;
+  try {
+    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions });
+  } catch (e) {
+    // The analysis names inputs by role; the shells need the file.
+    if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(files.marks ?? files.lesions ?? manifestPath, `visit ${v.id}: ${e.problem}`);
+    throw e;
+  }
+  warnings.push(...analysis.warnings);
+
+  let viable: { components: ViableComponent[] } | undefined;
+  if (v.viable !== undefined) {
+    const mask = await volume('viable', v.viable);
+    const found = lesionsFromMask(mask, files.viable);
+    viable = {
+      components: found.lesions.map((lv, n) => {
+        const m = measureMaskLesion(`V${n + 1}`, mask, lv, null);
+        return { centroidMm: m.centroidMm, longestAxialMm: m.longestAxialMm };
+      }),
+    };
+  }
+
+  const followup: FollowupVisit = {
+    id: v.id,
+    date: v.date,
+    lesions: analysis.lesions,
+    landmarks,
+    liver,
+    sliceThicknessMm,
+    viable,
+  };
+  return { manifest: v, analysis, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
+}
+
+/** runFollowup with the manifest's targets, margin and criteria; a bad target names the manifest. */
+export function followupOfPatient(patient: LoadedPatient): FollowupResult {
+  const m = patient.manifest;
+  try {
+    return runFollowup(
+      patient.visits.map((v) => v.followup),
+      { targets: m.targets, marginMm: m.marginMm, criteria: m.criteria },
+    );
+  } catch (e) {
+    if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(patient.manifestFile, `field ${e.file}: ${e.problem}`);
+    throw e;
+  }
+}
