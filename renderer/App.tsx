@@ -1,18 +1,24 @@
 import { Caution } from './components/Caution';
+import { go, useRoute } from './navigation';
 import { PatientList } from './screens/PatientList';
+import { PatientWorkspace } from './screens/PatientWorkspace';
 import { VERSION } from '../src/version';
 
 /** The application frame: header, the current screen, the caution. */
 export function App() {
+  const route = useRoute();
   return (
     <div className="app">
       <header className="app-header">
-        <h1 className="brand">Falciform</h1>
+        <h1 className="brand">
+          <a href="#/" onClick={(e) => { e.preventDefault(); go({ screen: 'patients' }); }}>Falciform</a>
+        </h1>
         <span className="tagline">Liver lesions by Couinaud segment, visit after visit</span>
         <span className="version">v{VERSION}</span>
       </header>
       <main className="app-main">
-        <PatientList />
+        {route.screen === 'patients' && <PatientList />}
+        {route.screen !== 'patients' && <PatientWorkspace key={route.patientId} route={route} />}
       </main>
       <footer className="app-footer">
         <Caution />

@@ -9,6 +9,8 @@ import { BACKUP_EXTENSION, backupFileName, createBackup, readBackup, restoreBack
 import { appDb, askPersistentStorage } from '../store/db';
 import { commitImport, findManifests, readImport, type LooseVisitDetails } from '../store/import';
 import { deletePatient, listPatients, type PatientSummary } from '../store/patients';
+import { offerDemoPatients, removeDemoPatients } from '../store/demo';
+import { go } from '../navigation';
 
 type Notice =
   | { kind: 'done'; text: string; warnings: string[] }
@@ -26,6 +28,7 @@ export function PatientList() {
   const [busy, setBusy] = useState<string | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
   const [toDelete, setToDelete] = useState<PatientSummary | null>(null);
+  const [confirmDemo, setConfirmDemo] = useState(false);
   const [loose, setLoose] = useState<OpenedFile[] | null>(null);
   const [pendingRestore, setPendingRestore] = useState<{ contents: BackupContents; file: string; conflicts: string[] } | null>(null);
   const [persistent, setPersistent] = useState<boolean | null>(null);
@@ -35,7 +38,10 @@ export function PatientList() {
 
   const refresh = useCallback(async () => setRows(await listPatients(db)), [db]);
   useEffect(() => {
-    void refresh();
+    void offerDemoPatients(db)
+      .then((ids) => { if (ids.length) setNotice({ kind: 'done', text: `Demo patients added: ${ids.join(', ')} (invented, for trying the app; remove them any time).`, warnings: [] }); })
+      .catch((e: unknown) => setNotice({ kind: 'error', action: 'Demo import', file: null, problem: e instanceof Error ? e.message : String(e) }))
+      .finally(() => void refresh());
     void askPersistentStorage().then(setPersistent);
     // React has no prop for folder picking; the attribute is standard in Chromium.
     folderInput.current?.setAttribute('webkitdirectory', '');
@@ -151,6 +157,11 @@ export function PatientList() {
           <button type="button" onClick={() => void chooseBackup()} disabled={busy !== null} data-testid="restore">
             Restore…
           </button>
+          {rows?.some((r) => r.patient.demo) && (
+            <button type="button" className="quiet-danger" onClick={() => setConfirmDemo(true)} disabled={busy !== null} data-testid="remove-demo">
+              Remove demo patients…
+            </button>
+          )}
         </div>
         <input ref={folderInput} type="file" multiple hidden onChange={(e) => void fromInput(e).then((f) => importFiles(f))} data-testid="folder-input" />
         <input ref={filesInput} type="file" multiple hidden accept=".nii,.gz,.json" onChange={(e) => void fromInput(e).then((f) => importFiles(f))} data-testid="files-input" />
@@ -198,9 +209,16 @@ export function PatientList() {
               {shown!.map((r) => (
                 <tr key={r.patient.id} data-testid="patient-row" data-patient={r.patient.id}>
                   <th scope="row">
-                    <span className="patient-id">{r.patient.id}</span>
+                    <a
+                      className="patient-id"
+                      href={`#/patient/${encodeURIComponent(r.patient.id)}`}
+                      onClick={(e) => { e.preventDefault(); go({ screen: 'patient', patientId: r.patient.id }); }}
+                      data-testid="open-patient"
+                    >
+                      {r.patient.id}
+                    </a>
                     {r.patient.label && <span className="patient-label">{r.patient.label}</span>}
-                    {r.patient.demo && <span className="badge">invented</span>}
+                    {r.patient.demo && <span className="badge" data-testid="demo-badge">demo — invented</span>}
                   </th>
                   <td>{r.visitCount}</td>
                   <td>{r.firstVisit ? (r.firstVisit === r.lastVisit ? r.firstVisit : `${r.firstVisit} – ${r.lastVisit}`) : '—'}</td>
@@ -231,6 +249,21 @@ export function PatientList() {
         {persistent === false && ' The browser may clear it when the disk runs low: keep backups.'}
       </p>
 
+      {confirmDemo && (
+        <ConfirmDialog
+          title="Remove the demo patients?"
+          confirmLabel="Remove demo patients"
+          danger
+          testId="remove-demo-dialog"
+          onCancel={() => setConfirmDemo(false)}
+          onConfirm={() => {
+            setConfirmDemo(false);
+            void run('Remove demo patients', async () => `Removed ${(await removeDemoPatients(db)).join(', ')}.`);
+          }}
+        >
+          <p>The invented demo patients and everything stored for them are deleted from this computer. They are not offered again.</p>
+        </ConfirmDialog>
+      )}
       {toDelete && (
         <ConfirmDialog
           title={`Delete patient ${toDelete.patient.id}?`}

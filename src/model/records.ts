@@ -144,8 +144,10 @@ export interface SettingRecord {
 }
 
 /** The settings the app knows, with their values before anyone changes them. */
-export const DEFAULT_SETTINGS: { marginMm: number; windowPresets: WindowPreset[] } = {
+export const DEFAULT_SETTINGS: { marginMm: number; windowPresets: WindowPreset[]; demoOffered: boolean } = {
   marginMm: 10,
+  // Set once the demo patients were offered on first start, so removing them is final.
+  demoOffered: false,
   // Liver soft-tissue, bone and lung windows as commonly used in CT reading (common practice).
   windowPresets: [
     { name: 'Liver', centre: 60, width: 160 },

@@ -1,0 +1,26 @@
+import type { FollowupResult } from '../../src/followup/followup';
+import type { Manifest } from '../../src/manifest/manifest';
+import type { VisitAnalysis } from '../../src/visit/analyze';
+
+/** One visit's analysis as the app shows it. */
+export interface VisitResult {
+  id: string;
+  date: string;
+  analysis: VisitAnalysis;
+  /** Reading and analysis warnings, each naming its file. */
+  warnings: string[];
+}
+
+/** Everything the patient screens show: each visit's analysis and the follow-up across visits. */
+export interface PatientAnalysis {
+  manifest: Manifest;
+  visits: VisitResult[];
+  followup: FollowupResult;
+}
+
+export type AnalysisRequest = { type: 'analyse'; patientId: string };
+
+export type AnalysisMessage =
+  | { type: 'progress'; done: number; total: number; step: string }
+  | { type: 'result'; result: PatientAnalysis }
+  | { type: 'error'; message: string };

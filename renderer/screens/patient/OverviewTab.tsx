@@ -1,0 +1,81 @@
+import type { VisitFollowup } from '../../../src/followup/followup';
+import { usePatient } from '../../analysis/PatientContext';
+import { go } from '../../navigation';
+
+const pct = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x > 0 ? '+' : ''}${x.toFixed(1)}%`);
+const mm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x.toFixed(1)} mm`);
+
+/** The visit timeline: each visit's inputs, lesions, alerts and response category. */
+export function OverviewTab() {
+  const { patient, analysis } = usePatient();
+  if (!analysis) return null;
+  const byId = new Map<string, VisitFollowup>(analysis.followup.visits.map((v) => [v.id, v]));
+  return (
+    <section aria-labelledby="timeline-title">
+      <h3 id="timeline-title">Visits</h3>
+      <table className="data-table" data-testid="visit-table">
+        <thead>
+          <tr>
+            <th scope="col">Date</th>
+            <th scope="col">Visit</th>
+            <th scope="col">Segment map</th>
+            <th scope="col">Lesions</th>
+            <th scope="col">Margin alerts</th>
+            <th scope="col">Target sum</th>
+            <th scope="col">vs baseline</th>
+            <th scope="col">vs nadir</th>
+            <th scope="col">Response ({analysis.followup.criteria})</th>
+            <th scope="col">New</th>
+          </tr>
+        </thead>
+        <tbody>
+          {analysis.manifest.visits.map((mv, k) => {
+            const f = byId.get(mv.id);
+            const result = analysis.visits.find((v) => v.id === mv.id);
+            const lesions = result?.analysis.lesions ?? [];
+            const r = f?.response;
+            return (
+              <tr key={mv.id} data-testid="visit-row" data-visit={mv.id}>
+                <td>{mv.date}</td>
+                <th scope="row">
+                  <a
+                    href={`#/patient/${encodeURIComponent(patient.id)}/visit/${encodeURIComponent(mv.id)}`}
+                    onClick={(e) => { e.preventDefault(); go({ screen: 'visit', patientId: patient.id, visitId: mv.id }); }}
+                  >
+                    {mv.id}
+                  </a>
+                </th>
+                <td>{mv.segments ? 'imported' : 'built from landmarks'}</td>
+                <td>{lesions.length} {mv.lesions ? '(mask)' : '(marks)'}</td>
+                <td className={f?.marginAlerts.length ? 'alert-cell' : undefined}>{f?.marginAlerts.join(', ') || '—'}</td>
+                <td>{mm(r?.targetSumMm)}</td>
+                <td>{k === 0 ? 'baseline' : pct(r?.changeFromBaselinePct)}</td>
+                <td>{k === 0 ? '—' : pct(r?.changeFromNadirPct)}</td>
+                <td>
+                  <span className={`category category-${(f?.overall ?? 'none').replace(/[^A-Za-z]/g, '')}`} data-testid="response">
+                    {k === 0 ? 'baseline' : (f?.overall ?? '—')}
+                  </span>
+                </td>
+                <td>{f?.newLesions.join(', ') || '—'}</td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+      {analysis.followup.notes.length > 0 && (
+        <ul className="notes">
+          {analysis.followup.notes.map((n) => <li key={n}>{n}</li>)}
+        </ul>
+      )}
+      {(analysis.visits.some((v) => v.warnings.length > 0) || analysis.followup.warnings.length > 0) && (
+        <details className="warnings">
+          <summary>Warnings</summary>
+          <ul>
+            {analysis.visits.flatMap((v) => v.warnings.map((w) => <li key={`${v.id}:${w}`}>visit {v.id}: {w}</li>))}
+            {analysis.followup.warnings.map((w) => <li key={w}>{w}</li>)}
+          </ul>
+        </details>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,7 @@
+import type { ComponentType } from 'react';
+import { OverviewTab } from './OverviewTab';
+
+/** The patient page's tabs, in order; each is one component reading the shared patient context. */
+export const PATIENT_TABS: { id: string; label: string; Component: ComponentType }[] = [
+  { id: 'overview', label: 'Visits', Component: OverviewTab },
+];

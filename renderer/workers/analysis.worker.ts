@@ -1,0 +1,51 @@
+/// <reference lib="webworker" />
+// Loads a stored patient and runs the core's visit analysis and follow-up off the window's thread.
+import { isFalciformError } from '../../src/errors';
+import { runFollowup } from '../../src/followup/followup';
+import type { Override } from '../../src/followup/tracks';
+import { loadPatientFrom } from '../../src/patient/load';
+import type { AnalysisMessage, AnalysisRequest, PatientAnalysis } from '../analysis/types';
+import { storedPatient } from '../analysis/store-source';
+import { appDb } from '../store/db';
+
+const post = (m: AnalysisMessage) => (self as unknown as DedicatedWorkerGlobalScope).postMessage(m);
+
+async function analyse(patientId: string): Promise<PatientAnalysis> {
+  const db = appDb();
+  const { manifest, files } = await storedPatient(db, patientId);
+  const total = manifest.visits.length + 1;
+  let done = 0;
+  // Visits one at a time, reporting each, so a long series shows progress.
+  const visits = [];
+  for (const v of manifest.visits) {
+    post({ type: 'progress', done, total, step: `visit ${v.id} (${v.date})` });
+    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files);
+    visits.push(one.visits[0]);
+    done++;
+  }
+  post({ type: 'progress', done, total, step: 'follow-up across visits' });
+  const overrides: Override[] = (await db.overrides.where('patientId').equals(patientId).sortBy('at')).map((o) =>
+    o.kind === 'link' ? { kind: 'link', visit: o.visit, lesion: o.lesion, track: o.track ?? '' }
+      : o.kind === 'unlink' ? { kind: 'unlink', visit: o.visit, lesion: o.lesion, ...(o.track ? { track: o.track } : {}) }
+        : { kind: 'new', visit: o.visit, lesion: o.lesion },
+  );
+  const followup = runFollowup(visits.map((v) => v.followup), {
+    targets: manifest.targets,
+    overrides,
+    marginMm: manifest.marginMm,
+    criteria: manifest.criteria,
+  });
+  return {
+    manifest,
+    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings })),
+    followup,
+  };
+}
+
+self.onmessage = async (e: MessageEvent<AnalysisRequest>) => {
+  try {
+    post({ type: 'result', result: await analyse(e.data.patientId) });
+  } catch (err) {
+    post({ type: 'error', message: isFalciformError(err) || err instanceof Error ? err.message : String(err) });
+  }
+};
