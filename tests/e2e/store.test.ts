@@ -50,7 +50,12 @@ describe('local store in the browser', () => {
 
   it('imports a patient folder, and the patient is still there after a reload', async () => {
     await page.goto(server.url);
+    // A fresh store gets the demo patients first; removing them leaves the store empty for this test.
+    await page.getByTestId('remove-demo').click({ timeout: 60_000 });
+    await page.getByTestId('remove-demo-dialog').getByRole('button', { name: 'Remove demo patients' }).click();
     await page.getByTestId('no-patients').waitFor();
+    await page.reload();
+    await page.getByTestId('no-patients').waitFor(); // not offered again
     await (await folderInput()).setInputFiles(join(dir, 'good', 'DEMO-0101'));
     await page.getByTestId('import-done').waitFor();
     expect(await page.getByTestId('import-done').textContent()).toMatch(/Imported DEMO-0101: 2 visits imported/);
