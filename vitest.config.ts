@@ -7,6 +7,7 @@ export default defineConfig({
         test: {
           name: 'unit',
           include: ['tests/**/*.test.ts'],
+          globalSetup: ['tests/setup/build.ts'],
           exclude: ['tests/e2e/**'],
           environment: 'node',
           testTimeout: 60_000,

@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 
 // The command line as a user runs it: the compiled bin script, exit codes per the contracts.
 function falciform(...args: string[]) {
@@ -7,11 +7,6 @@ function falciform(...args: string[]) {
 }
 
 describe('falciform command line', () => {
-  beforeAll(() => {
-    const r = spawnSync('npx', ['tsc', '-p', 'tsconfig.node.json'], { encoding: 'utf8' });
-    if (r.status !== 0) throw new Error(r.stdout + r.stderr);
-  });
-
   it('prints help with every command and the caution', () => {
     const r = falciform('--help');
     expect(r.status).toBe(0);

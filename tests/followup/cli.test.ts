@@ -27,8 +27,6 @@ const labelAt = (p: V3) => (p[0] > 80 ? 7 : p[0] > 30 ? 8 : p[0] > -10 ? 4 : 2);
 let dir: string;
 
 beforeAll(async () => {
-  const r = spawnSync('npx', ['tsc', '-p', 'tsconfig.node.json'], { encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(r.stdout + r.stderr);
   dir = mkdtempSync(join(tmpdir(), 'falciform-followup-'));
   mkdirSync(join(dir, 'v1'));
   mkdirSync(join(dir, 'v2'));

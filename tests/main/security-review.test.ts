@@ -416,7 +416,8 @@ describe('renderer', () => {
       const html = readFileSync(join(out, 'index.html'), 'utf8');
       const refs = [...html.matchAll(/\b(?:src|href)\s*=\s*["']([^"']+)["']/g)].map((m) => m[1]);
       expect(refs.length).toBeGreaterThan(1);
-      for (const ref of refs) expect(ref, ref).toMatch(/^\.?\/(?!\/)/);
+      // Relative to the app, or the inline data: icon (nothing to fetch).
+      for (const ref of refs) expect(ref, ref).toMatch(/^(\.?\/(?!\/)|data:image\/svg\+xml,)/);
       for (const m of html.matchAll(/<script\b([^>]*)>([\s\S]*?)<\/script>/g)) {
         expect(m[1]).toMatch(/\bsrc=/);
         expect(m[2].trim()).toBe('');

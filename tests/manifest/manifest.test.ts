@@ -44,4 +44,25 @@ describe('study manifest', () => {
     expect(resolveManifestPath('manifest.json', 'v1/scan.nii.gz')).toBe('v1/scan.nii.gz');
     expect(resolveManifestPath('data/manifest.json', '/abs/scan.nii')).toBe('/abs/scan.nii');
   });
+
+  describe('proposed resection (docs/formats.md, "Proposed resection")', () => {
+    it('takes a Brisbane 2000 preset id or a list of segments, and is optional', () => {
+      expect(parse(example).resection).toBeUndefined();
+      expect(parse({ ...example, resection: { preset: 'right-hemihepatectomy' } }).resection).toEqual({ preset: 'right-hemihepatectomy' });
+      expect(parse({ ...example, resection: { segments: ['V', 'VI'] } }).resection).toEqual({ segments: ['V', 'VI'] });
+      expect(parse({ ...example, resection: { segments: ['IVb'] } }).resection).toEqual({ segments: ['IVb'] });
+    });
+
+    it('names the field for each problem', () => {
+      expect(() => parse({ ...example, resection: { preset: 'left-lobectomy' } }))
+        .toThrow(/^p\/manifest\.json: field resection\.preset must be one of right-hemihepatectomy, left-hemihepatectomy, /);
+      expect(() => parse({ ...example, resection: { segments: ['V', 'IX'] } }))
+        .toThrow(/field resection\.segments\[1\] must be one of I, II, III, IV, IVa, IVb, V, VI, VII, VIII/);
+      expect(() => parse({ ...example, resection: { segments: [] } })).toThrow(/field resection\.segments must list at least one segment/);
+      expect(() => parse({ ...example, resection: { segments: ['V', 'V'] } })).toThrow(/field resection\.segments must not repeat a segment/);
+      expect(() => parse({ ...example, resection: {} })).toThrow(/field resection must give either "preset" or "segments"/);
+      expect(() => parse({ ...example, resection: { preset: 'segmentectomy-5', segments: ['V'] } })).toThrow(/field resection must give either/);
+      expect(() => parse({ ...example, resection: { preset: 'segmentectomy-5', margin: 1 } })).toThrow(/field resection/);
+    });
+  });
 });

@@ -124,7 +124,21 @@ describe('tumour estimated from marked diameters', () => {
     expect(byName(v, 'VI').tumourFreeMl).toBe(0);
     expect(v.notes.some((n) => /Segment VI: tumour .* exceeds the segment/.test(n))).toBe(true);
     expect(() => visitVolumetry(blockMap(), [{ segment: 'V', longestAxialMm: 10, shortAxisMm: 12 }])).toThrow(FalciformError);
-    expect(() => visitVolumetry(blockMap(), [{ segment: 'V', longestAxialMm: NaN, shortAxisMm: 5 }])).toThrow(/positive numbers in mm/);
+    expect(() => visitVolumetry(blockMap(), [{ segment: 'V', longestAxialMm: NaN, shortAxisMm: 5 }])).toThrow(/lengths in mm ≥ 0/);
+    expect(() => visitVolumetry(blockMap(), [{ segment: 'V', longestAxialMm: 10, shortAxisMm: -1 }])).toThrow(FalciformError);
+  });
+
+  it('takes every mark the marks reader takes: zero diameters, a short axis longer by rounding, a centre off the liver', () => {
+    const v = visitVolumetry(blockMap(), [
+      { id: 'Z', segment: 'V', longestAxialMm: 8, shortAxisMm: 0 },
+      // Short axis 10.04 against 10 mm is typed-in rounding: taken as 10, π/6 × 1000 mm³ = 0.5236 mL.
+      { id: 'R', segment: 'VI', longestAxialMm: 10, shortAxisMm: 10.04 },
+      { id: 'X', segment: null, longestAxialMm: 10, shortAxisMm: 10 },
+    ]);
+    expect(byName(v, 'V').tumourMl).toBe(0);
+    expect(byName(v, 'VI').tumourMl).toBeCloseTo(Math.PI / 6, 9);
+    expect(v.tumourOutsideSegmentsMl).toBeCloseTo(Math.PI / 6, 9);
+    expect(v.notes.some((n) => /X: lies outside the segment map's liver; its estimated 0.5 mL/.test(n))).toBe(true);
   });
 });
 

@@ -28,9 +28,7 @@ describe('falciform segments (source: contracts.md, command line)', () => {
   const landmarks = { space: 'RAS', units: 'mm', points: phantomLandmarks().points };
 
   beforeAll(async () => {
-    // The command as a user runs it: the compiled bin script.
-    const tsc = spawnSync('npx', ['tsc', '-p', 'tsconfig.node.json'], { encoding: 'utf8' });
-    if (tsc.status !== 0) throw new Error(tsc.stdout + tsc.stderr);
+    // The command as a user runs it: the compiled bin script (built once by tests/setup/build.ts).
     dir = mkdtempSync(join(tmpdir(), 'falciform-segments-'));
     await saveVolume(join(dir, 'liver.nii.gz'), liver, 'uint8');
     await saveVolume(join(dir, 'caudate.nii'), caudate, 'uint8');
