@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { badFile } from '../errors.js';
+import { RESECTION_PRESETS } from '../remnant/resections.js';
+import { SEGMENT_NAMES } from '../segments/segment-map.js';
 
 // The app's Content-Security-Policy forbids eval; without this zod probes `new Function` and the page logs a violation.
 z.config({ jitless: true });
@@ -48,6 +50,20 @@ const treatment = z.strictObject({
   label: z.string().min(1).max(200),
 });
 
+const presetIds = RESECTION_PRESETS.map((p) => p.id);
+
+/** The resection proposed for this patient: a named preset, or the segments to remove. */
+const resection = z
+  .strictObject({
+    preset: z.string().refine((s) => presetIds.includes(s), `must be one of ${presetIds.join(', ')}`).optional(),
+    segments: z
+      .array(z.enum(SEGMENT_NAMES, { error: `must be one of ${SEGMENT_NAMES.join(', ')}` }))
+      .min(1, 'must list at least one segment')
+      .refine((l) => new Set(l).size === l.length, 'must not repeat a segment')
+      .optional(),
+  })
+  .refine((r) => (r.preset === undefined) !== (r.segments === undefined), 'must give either "preset" or "segments"');
+
 const manifestSchema = z
   .strictObject({
     patient: z.strictObject({
@@ -63,6 +79,7 @@ const manifestSchema = z
     visits: z.array(visit).min(1, 'must list at least one visit'),
     targets: z.array(id).max(5).optional(),
     treatments: z.array(treatment).optional(),
+    resection: resection.optional(),
   })
   .superRefine((m, ctx) => {
     const seen = new Set<string>();
@@ -75,6 +92,7 @@ const manifestSchema = z
 export type Manifest = z.output<typeof manifestSchema>;
 export type ManifestVisit = Manifest['visits'][number];
 export type Treatment = NonNullable<Manifest['treatments']>[number];
+export type ProposedResection = NonNullable<Manifest['resection']>;
 
 /** Reads a study manifest; visits come back in date order. Errors name the file and the field. */
 export function parseManifest(text: string, file: string): Manifest {

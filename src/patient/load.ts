@@ -6,6 +6,7 @@ import { lesionsFromMask } from '../lesions/components.js';
 import { parseMarks } from '../lesions/marks.js';
 import { measureMaskLesion } from '../lesions/measures.js';
 import type { Manifest, ManifestVisit } from '../manifest/manifest.js';
+import { visitVolumetry, type VisitVolumetry } from '../remnant/volumetry.js';
 import { buildSegmentMap } from '../segments/build.js';
 import { importSegmentMap } from '../segments/import.js';
 import { parseLandmarks, type LandmarkSet } from '../segments/landmarks.js';
@@ -27,6 +28,8 @@ export interface LoadedVisit {
   analysis: VisitAnalysis;
   /** The visit as runFollowup takes it. */
   followup: FollowupVisit;
+  /** Liver, tumour and tumour-free volume per segment: tumour from the lesion mask, else estimated from the marks. */
+  volumetry: VisitVolumetry;
   /** Files and reading warnings, analysis warnings included. */
   warnings: string[];
   /** The files read, by role (scan, segments, liver, …), as resolved against the manifest. */
@@ -121,8 +124,11 @@ async function loadVisit(
   const lesionMask = v.lesions !== undefined ? await volume('lesions', v.lesions) : undefined;
   const marks = v.marks !== undefined ? parseMarks(await text('marks', v.marks), path(v.marks)) : undefined;
   let analysis: VisitAnalysis;
+  let volumetry: VisitVolumetry;
   try {
     analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions });
+    // Here the segment map and lesion mask are still in hand; later steps keep only plain results.
+    volumetry = visitVolumetry(segments, lesionMask ?? (marks && analysis.lesions.filter((l) => l.source === 'mark')));
   } catch (e) {
     // The analysis names inputs by role; the shells need the file.
     if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(files.marks ?? files.lesions ?? manifestPath, `visit ${v.id}: ${e.problem}`);
@@ -151,7 +157,7 @@ async function loadVisit(
     sliceThicknessMm,
     viable,
   };
-  return { manifest: v, analysis, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
+  return { manifest: v, analysis, volumetry, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
 }
 
 /** runFollowup with the manifest's targets, margin and criteria; a bad target names the manifest. */

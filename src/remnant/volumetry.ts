@@ -7,7 +7,8 @@ import { voxelVolumeMl, type Volume } from '../volume/volume.js';
 /** A lesion known only by its diameters (a manual mark), placed in a segment. */
 export interface TumourDiameters {
   id?: string;
-  segment: SegmentName;
+  /** Null for a mark whose centre lies outside the segment map's liver. */
+  segment: SegmentName | null;
   longestAxialMm: number;
   shortAxisMm: number;
 }
@@ -65,10 +66,11 @@ export function visitVolumetry(map: SegmentMap, tumour?: Volume | readonly Tumou
     const present = new Set(volumes.map((v) => v.segment));
     tumour.forEach((t, n) => {
       const ml = ellipsoidMl(t, n);
-      if (present.has(t.segment)) tumourMl[SEGMENT_NAMES.indexOf(t.segment)] += ml;
+      if (t.segment !== null && present.has(t.segment)) tumourMl[SEGMENT_NAMES.indexOf(t.segment)] += ml;
       else {
         outsideMl += ml;
-        notes.push(`${t.id ?? `lesion ${n + 1}`}: segment ${t.segment} is not in this visit's segment map; its estimated ${ml.toFixed(1)} mL is left out of every segment.`);
+        const where = t.segment === null ? 'lies outside the segment map\'s liver' : `segment ${t.segment} is not in this visit's segment map`;
+        notes.push(`${t.id ?? `lesion ${n + 1}`}: ${where}; its estimated ${ml.toFixed(1)} mL is left out of every segment.`);
       }
     });
   }
@@ -97,15 +99,20 @@ function isVolume(x: Volume | readonly TumourDiameters[]): x is Volume {
   return !Array.isArray(x);
 }
 
-/** Ellipsoid with axes L, S, S: π/6 · L · S² mm³, in mL. */
+// The marks reader lets a short axis exceed the longest diameter by this much (typed-in rounding);
+// the estimate must accept every mark that reader accepts, or one mark would stop a whole load.
+const ROUNDING_MM = 0.05;
+
+/** Ellipsoid with axes L, S, S: π/6 · L · S² mm³, in mL. A zero diameter gives 0 mL. */
 function ellipsoidMl(t: TumourDiameters, n: number): number {
   const what = t.id ?? `lesion ${n + 1}`;
   const { longestAxialMm: L, shortAxisMm: S } = t;
-  if (!(Number.isFinite(L) && L > 0) || !(Number.isFinite(S) && S > 0)) {
-    throw badInput(what, `diameters must be positive numbers in mm (longest ${String(L)}, short axis ${String(S)})`);
+  if (!(Number.isFinite(L) && L >= 0) || !(Number.isFinite(S) && S >= 0)) {
+    throw badInput(what, `diameters must be lengths in mm ≥ 0 (longest ${String(L)}, short axis ${String(S)})`);
   }
-  if (S > L) throw badInput(what, `short axis ${S} mm is longer than the longest diameter ${L} mm`);
-  return ((Math.PI / 6) * L * S * S) / 1000;
+  if (S > L + ROUNDING_MM) throw badInput(what, `short axis ${S} mm is longer than the longest diameter ${L} mm`);
+  const s = Math.min(S, L);
+  return ((Math.PI / 6) * L * s * s) / 1000;
 }
 
 /**
