@@ -1,5 +1,6 @@
 import type { FollowupResult } from '../../src/followup/followup';
 import type { Manifest } from '../../src/manifest/manifest';
+import type { VisitVolumetry } from '../../src/remnant/volumetry';
 import type { VisitAnalysis } from '../../src/visit/analyze';
 
 /** One visit's analysis as the app shows it. */
@@ -7,6 +8,8 @@ export interface VisitResult {
   id: string;
   date: string;
   analysis: VisitAnalysis;
+  /** Liver, tumour and tumour-free volume per segment (tumour estimated when the visit has only marks). */
+  volumetry: VisitVolumetry;
   /** Reading and analysis warnings, each naming its file. */
   warnings: string[];
 }

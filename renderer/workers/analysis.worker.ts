@@ -37,7 +37,7 @@ async function analyse(patientId: string): Promise<PatientAnalysis> {
   });
   return {
     manifest,
-    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings })),
+    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings })),
     followup,
   };
 }

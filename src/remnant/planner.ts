@@ -100,6 +100,7 @@ export function planRemnant(
   const remnantShare = remnantMl / tumourFreeLiverMl;
 
   const standard = standardised(remnantMl, body, warnings);
+  if (standard) checkAgainstBodySize(volumetry.liverVolumeMl, standard.liverMl, warnings);
   const comparedShare = standard
     ? { kind: 'standardised' as const, value: standard.share, description: 'standardised remnant: remnant volume / standardised total liver volume from body surface area (Vauthey 2002)' }
     : { kind: 'measured' as const, value: remnantShare, description: 'measured share: remnant volume / tumour-free liver volume (height and weight not known)' };
@@ -160,6 +161,20 @@ function standardised(
   const bsaM2 = bodySurfaceAreaM2(h, w);
   const liverMl = standardisedLiverVolumeMl(bsaM2);
   return { bsaM2, liverMl, share: remnantMl / liverMl };
+}
+
+// A measured liver this far from the one the body size predicts points more often to a wrong
+// outline, voxel size, height or weight than to the liver itself; a generous band, not a clinical limit.
+const PLAUSIBLE_LIVER_RATIO = { min: 0.5, max: 1.5 };
+
+function checkAgainstBodySize(liverMl: number, standardisedMl: number, warnings: string[]): void {
+  const ratio = liverMl / standardisedMl;
+  if (ratio >= PLAUSIBLE_LIVER_RATIO.min && ratio <= PLAUSIBLE_LIVER_RATIO.max) return;
+  warnings.push(
+    `The measured liver (${liverMl.toFixed(1)} mL) is ${(ratio * 100).toFixed(0)}% of the standardised total liver volume ` +
+    `for this height and weight (${standardisedMl.toFixed(1)} mL): check the segment map's liver outline, the scan's voxel size ` +
+    'and the height and weight before relying on the standardised remnant.',
+  );
 }
 
 /**

@@ -93,6 +93,13 @@ describe('remnant share arithmetic', () => {
     expect(planRemnant(visit(), 'right-trisectionectomy', { heightCm: 170, weightKg: 70 }).warnings).toEqual([]);
     expect(() => planRemnant(visit(), 'right-hemihepatectomy', { heightCm: 170, weightKg: 7000 })).toThrow(FalciformError);
   });
+
+  it('a measured liver far from the one the body size predicts is pointed out', () => {
+    // 1650 mL against 1509.66 mL (170 cm, 70 kg) is 109%: no warning. Against 1094.74 mL (160 cm, 50 kg) it is 151%.
+    expect(planRemnant(visit(), 'segmentectomy-2', { heightCm: 170, weightKg: 70 }).warnings).toEqual([]);
+    const w = planRemnant(visit(), 'segmentectomy-2', { heightCm: 160, weightKg: 50 }).warnings;
+    expect(w).toEqual([expect.stringMatching(/^The measured liver \(1650\.0 mL\) is 151% of the standardised total liver volume for this height and weight \(1094\.7 mL\)/)]);
+  });
 });
 
 describe('lesions that would stay in the remnant', () => {
