@@ -20,7 +20,7 @@ const fileName = z
   .string()
   .min(1)
   .max(120)
-  .regex(/^[^/\\:*?"<>|\u0000-\u001f]+$/, 'a plain file name without folders');
+  .refine((n) => !/[/\\:*?"<>|]/.test(n) && ![...n].some((c) => c.charCodeAt(0) < 32), 'a plain file name without folders');
 
 export const MAX_OPEN_BYTES = 4 * 1024 ** 3;
 export const MAX_SAVE_BYTES = 1024 ** 3;
