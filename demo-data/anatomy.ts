@@ -48,7 +48,7 @@ export function inIvc(p: Vec3): boolean {
 /** Liver tissue (the IVC is not liver; the veins inside it are). */
 export function inLiver(p: Vec3): boolean {
   if (inBody(p) !== 'inside' || inIvc(p)) return false;
-  return inEllipsoid(p, [30, 0, 5], [105, 85, 80]) || inEllipsoid(p, [-50, 25, 15], [55, 40, 32]);
+  return inEllipsoid(p, [30, 0, 5], [88, 72, 64]) || inEllipsoid(p, [-50, 25, 15], [55, 40, 32]);
 }
 
 /** The caudate lobe (segment I): liver beside the IVC, to its left and front. */

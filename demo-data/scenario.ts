@@ -71,7 +71,7 @@ export const patients: DemoPatient[] = [
       { id: 'v4', date: '2026-06-29', segmentsFrom: 'landmarks', lesionsFrom: 'marks', motion: { rotZDeg: 1.5, rotXDeg: 2, shiftMm: [3, 5, 11] } },
     ],
     lesions: [
-      { key: 'vii', segment: 'VII', centres: [[85, -30, 35]], diametersMm: [34, 22, 18, 16], hu: 45 },
+      { key: 'vii', segment: 'VII', centres: [[80, -32, 32]], diametersMm: [30, 20, 16, 14], hu: 45 },
       { key: 'v', segment: 'V', centres: [[45, 30, -28]], diametersMm: [27, 17, 14, 12], hu: 50 },
       { key: 'ii', segment: 'II', centres: [[-75, 25, 26]], diametersMm: [16, 11, 9, 8], hu: 48 },
     ],
@@ -97,7 +97,7 @@ export const patients: DemoPatient[] = [
     lesions: [
       // Before ablation the whole tumour enhances; afterwards the ablation zone is larger and has no viable part.
       { key: 'hcc', segment: 'VIII', centres: [[40, 20, 40]], diametersMm: [26, 31, 29, 28], viableMm: [26, 0, 0, 0], hu: 135 },
-      { key: 'new', segment: 'VI', centres: [[82, -30, -30]], diametersMm: [0, 0, 15, 21], viableMm: [0, 0, 15, 21], hu: 140 },
+      { key: 'new', segment: 'VI', centres: [[75, -28, -28]], diametersMm: [0, 0, 15, 21], viableMm: [0, 0, 15, 21], hu: 140 },
     ],
     treatments: [{ date: '2026-02-16', kind: 'ablation', label: 'Microwave ablation, segment VIII' }],
   },
@@ -121,7 +121,7 @@ export const patients: DemoPatient[] = [
     lesions: [
       // Centres are placed relative to the VII/VIII border by the generator (see borderDistancesMm).
       { key: 'border', segment: 'VIII', centres: [[0, 0, 0]], diametersMm: [16, 18, 28], hu: 52 },
-      { key: 'ivb', segment: 'IVb', centres: [[-24, 48, -24]], diametersMm: [14, 14, 14], hu: 48 },
+      { key: 'ivb', segment: 'IVb', centres: [[-20, 39, -24]], diametersMm: [14, 14, 14], hu: 48 },
     ],
     treatments: [],
   },

@@ -67,7 +67,9 @@ describe('demo scenario, as designed', () => {
     expect(category(f)).toEqual([null, 'SD', 'PD']);
     const ivb = trackIn(f, 'IVb');
     expect(ivb.target).toBe(true);
-    expect(new Set(Object.values(ivb.longestAxialMm)).size).toBe(1);
+    // Its size is unchanged by design; voxel-centre measurement moves it by at most one voxel (2.6 mm here).
+    const sizes = Object.values(ivb.longestAxialMm) as number[];
+    expect(Math.max(...sizes) - Math.min(...sizes)).toBeLessThanOrEqual(2.6);
   });
 
   it('is generated the same from the seed every time', () => {
