@@ -28,6 +28,7 @@ export async function storedPatient(db: FalciformDb, patientId: string): Promise
     marginMm: patient.marginMm,
     ...(patient.criteria ? { criteria: patient.criteria } : {}),
     ...(patient.targets?.length ? { targets: patient.targets } : {}),
+    ...(patient.resection ? { resection: patient.resection } : {}),
     treatments: treatments.map(({ date, kind, label }) => ({ date, kind, label })),
     visits: visits.map((v) => {
       const has = (r: VolumeRole) => v.volumes.includes(r);

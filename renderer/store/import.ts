@@ -203,6 +203,7 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
     marginMm: manifest.marginMm,
     criteria: manifest.criteria,
     targets: manifest.targets,
+    resection: manifest.resection,
     createdAt: now,
     importedFrom: source,
   });

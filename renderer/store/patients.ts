@@ -67,7 +67,7 @@ export async function removePatientRecords(db: FalciformDb, id: string): Promise
 }
 
 /** The fields of a patient a user may change after import. */
-export type PatientEdit = Partial<Pick<PatientRecord, 'label' | 'birthYear' | 'heightCm' | 'weightKg' | 'sex' | 'marginMm' | 'criteria' | 'targets'>>;
+export type PatientEdit = Partial<Pick<PatientRecord, 'label' | 'birthYear' | 'heightCm' | 'weightKg' | 'sex' | 'marginMm' | 'criteria' | 'targets' | 'resection'>>;
 
 /** Changes a patient's details; each changed field leaves a trail entry with its old and new value. */
 export async function updatePatient(db: FalciformDb, id: string, changes: PatientEdit): Promise<PatientRecord> {

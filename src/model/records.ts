@@ -1,3 +1,4 @@
+import type { ProposedResection } from '../manifest/manifest.js';
 import type { Datatype } from '../volume/volume.js';
 
 /**
@@ -29,6 +30,8 @@ export interface PatientRecord {
   marginMm: number;
   criteria?: 'RECIST 1.1' | 'mRECIST';
   targets?: string[];
+  /** The resection proposed at the tumour board (a Brisbane 2000 preset or the segments to remove). */
+  resection?: ProposedResection;
   /** ISO time the patient was first stored. */
   createdAt: string;
   /** Folder or file names the patient was imported from, for the nurse's own records. */

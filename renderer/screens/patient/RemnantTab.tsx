@@ -22,7 +22,7 @@ const named = (lesion: string, track: string | null | undefined) => (track ? `${
  * or tick segments, read the remnant against the commonly quoted minimums and the lesions it keeps.
  */
 export function RemnantTab() {
-  const { patient, analysis, reload } = usePatient();
+  const { patient, analysis, reload, reanalyse } = usePatient();
   const visits = analysis?.visits ?? [];
   const [visitId, setVisitId] = useState<string | null>(null);
   const [choice, setChoice] = useState<ProposedResection | null>(analysis?.manifest.resection ?? null);
@@ -75,6 +75,18 @@ export function RemnantTab() {
           </select>
         </label>
         {choice && <button type="button" onClick={() => setChoice(null)}>Clear</button>}
+        {JSON.stringify(choice ?? null) !== JSON.stringify(patient.resection ?? null) && (
+          <button
+            type="button"
+            data-testid="remnant-keep"
+            onClick={() => void updatePatient(appDb(), patient.id, { resection: choice ?? undefined }).then(reanalyse)}
+          >
+            {choice ? 'Keep as the proposed resection' : 'Withdraw the proposed resection'}
+          </button>
+        )}
+        {patient.resection && JSON.stringify(choice) === JSON.stringify(patient.resection) && (
+          <span className="kept" data-testid="remnant-kept">Proposed resection for the board summary</span>
+        )}
       </div>
 
       <div className="remnant-layout">
