@@ -1,10 +1,10 @@
-import type { Manifest } from '../../src/manifest/manifest';
-import type { InputKind, VolumeRole } from '../../src/model/records';
-import { inputKey, volumeKey } from '../../src/model/records';
-import type { PatientFiles } from '../../src/patient/load';
-import { readNifti } from '../../src/volume/nifti-read';
-import { webInflate } from '../../src/volume/web-gzip';
-import type { FalciformDb } from '../store/db';
+import type { Manifest } from '../../src/manifest/manifest.js';
+import type { InputKind, VolumeRole } from '../../src/model/records.js';
+import { inputKey, volumeKey } from '../../src/model/records.js';
+import type { PatientFiles } from '../../src/patient/load.js';
+import { readNifti } from '../../src/volume/nifti-read.js';
+import { webInflate } from '../../src/volume/web-gzip.js';
+import type { FalciformDb } from '../store/db.js';
 
 /**
  * A stored patient seen as a study manifest whose paths are "visit/role" keys, with a file source

@@ -1,0 +1,114 @@
+import { useEffect, useState } from 'react';
+import type { Mark } from '../../src/lesions/marks';
+import type { LesionResult } from '../../src/visit/analyze';
+import type { DraftCaliper } from './SliceViewer';
+
+const mm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : x.toFixed(1));
+const dist = (d: DraftCaliper) => Math.hypot(d.a[0] - d.b[0], d.a[1] - d.b[1], d.a[2] - d.b[2]);
+
+interface Props {
+  lesions: LesionResult[] | null;
+  marks: Mark[];
+  selected: string | null;
+  onSelect(id: string): void;
+  draft: DraftCaliper | null;
+  draftId: string;
+  onSaveDraft(shortAxisMm: number): void;
+  onCancelDraft(): void;
+  onShortAxis(id: string, shortAxisMm: number): void;
+  onDelete(id: string): void;
+  busy: boolean;
+}
+
+/** The visit's lesions as analysed, and the editor for a new or chosen manual mark. */
+export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId, onSaveDraft, onCancelDraft, onShortAxis, onDelete, busy }: Props) {
+  const chosenMark = marks.find((m) => m.id === selected) ?? null;
+  return (
+    <section className="side-section" aria-labelledby="lesions-title">
+      <h3 id="lesions-title">Lesions</h3>
+      {lesions && lesions.length === 0 && <p className="side-note">No lesions at this visit.</p>}
+      {lesions && lesions.length > 0 && (
+        <table className="data-table compact" data-testid="lesion-table">
+          <caption>Diameters and margin in mm; margin is the distance to the nearest other segment{lesions.some((l) => l.marginAlert) ? ', highlighted when below the set margin' : ''}.</caption>
+          <thead>
+            <tr>
+              <th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col" className="num" title="Longest axial diameter, mm">Longest</th>
+              <th scope="col" className="num" title="Short axis, mm">Short</th><th scope="col" className="num" title="Distance to the nearest other segment, mm">Margin</th>
+            </tr>
+          </thead>
+          <tbody>
+            {lesions.map((l) => (
+              <tr
+                key={l.id}
+                data-testid="lesion-row"
+                data-lesion={l.id}
+                className={`clickable${l.id === selected ? ' selected' : ''}`}
+                onClick={() => onSelect(l.id)}
+                title={l.segmentWarning ?? undefined}
+              >
+                <th scope="row">
+                  <button type="button" className="link-button" onClick={(e) => { e.stopPropagation(); onSelect(l.id); }}>{l.id}</button>
+                  <span className="lesion-source">{l.source === 'mark' ? 'mark' : 'mask'}</span>
+                </th>
+                <td data-testid="lesion-segment">{l.segment ?? 'outside'}{l.segmentWarning ? ' *' : ''}</td>
+                <td className="num">{mm(l.longestAxialMm)}</td>
+                <td className="num">{mm(l.shortAxisMm)}</td>
+                <td className={`num${l.marginAlert ? ' alert-cell' : ''}`} data-testid="lesion-margin">
+                  {mm(l.marginMm)}{l.marginAlert ? ` → ${l.nearestOtherSegment}` : ''}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
+      {draft && <DraftEditor draft={draft} id={draftId} onSave={onSaveDraft} onCancel={onCancelDraft} busy={busy} />}
+      {!draft && chosenMark && <MarkEditor key={chosenMark.id + chosenMark.shortAxisMm} mark={chosenMark} onShortAxis={onShortAxis} onDelete={onDelete} busy={busy} />}
+    </section>
+  );
+}
+
+function DraftEditor({ draft, id, onSave, onCancel, busy }: { draft: DraftCaliper; id: string; onSave(s: number): void; onCancel(): void; busy: boolean }) {
+  const longest = dist(draft);
+  const [typed, setTyped] = useState('');
+  useEffect(() => setTyped(draft.shortMm === null ? '' : Math.min(draft.shortMm, longest).toFixed(1)), [draft.shortMm, longest]);
+  const value = Number(typed);
+  const valid = typed.trim() !== '' && Number.isFinite(value) && value >= 0 && value <= longest + 0.05;
+  return (
+    <div className="mark-editor" data-testid="draft-editor">
+      <h4>New lesion {id}</h4>
+      <p>Longest axial diameter <strong data-testid="draft-longest">{longest.toFixed(1)} mm</strong></p>
+      <label className="inline">
+        Short axis
+        <input type="number" min={0} step={0.1} max={longest.toFixed(1)} value={typed} onChange={(e) => setTyped(e.target.value)} data-testid="draft-short" /> mm
+      </label>
+      <p className="side-note">{draft.shortMm === null ? 'Drag across the lesion at right angles to measure the short axis, or type it.' : 'Drag again to remeasure.'}</p>
+      {typed.trim() !== '' && !valid && <p className="field-problem">The short axis must be between 0 and {longest.toFixed(1)} mm.</p>}
+      <div className="editor-actions">
+        <button type="button" onClick={onCancel}>Discard</button>
+        <button type="button" className="primary" disabled={!valid || busy} onClick={() => onSave(value)} data-testid="save-mark">Save lesion</button>
+      </div>
+    </div>
+  );
+}
+
+function MarkEditor({ mark, onShortAxis, onDelete, busy }: { mark: Mark; onShortAxis(id: string, s: number): void; onDelete(id: string): void; busy: boolean }) {
+  const [typed, setTyped] = useState(mark.shortAxisMm.toFixed(1));
+  const value = Number(typed);
+  const changed = Number.isFinite(value) && Math.abs(value - mark.shortAxisMm) >= 0.05;
+  const valid = typed.trim() !== '' && Number.isFinite(value) && value >= 0 && value <= mark.longestAxialMm + 0.05;
+  return (
+    <div className="mark-editor" data-testid="mark-editor">
+      <h4>Manual mark {mark.id}</h4>
+      <p>Longest axial diameter <strong>{mark.longestAxialMm.toFixed(1)} mm</strong>{mark.endpointsMm ? ' — drag the caliper ends on the axial image to adjust.' : ''}</p>
+      <label className="inline">
+        Short axis
+        <input type="number" min={0} step={0.1} value={typed} onChange={(e) => setTyped(e.target.value)} data-testid="mark-short" /> mm
+      </label>
+      {!valid && <p className="field-problem">The short axis must be between 0 and {mark.longestAxialMm.toFixed(1)} mm.</p>}
+      <div className="editor-actions">
+        <button type="button" className="quiet-danger" onClick={() => onDelete(mark.id)} disabled={busy} data-testid="delete-mark">Delete mark</button>
+        <button type="button" className="primary" disabled={!valid || !changed || busy} onClick={() => onShortAxis(mark.id, value)}>Save short axis</button>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,34 @@
+import type { Vec3 } from '../../src/geometry/mat4.js';
+import type { VoxelArray } from '../../src/volume/volume.js';
+import type { ValueSummary } from './window-level.js';
+
+/** One visit's volumes decoded for display, everything on the scan's grid (i fastest). */
+export interface VisitVolumes {
+  patientId: string;
+  visitId: string;
+  dims: [number, number, number];
+  affine: number[];
+  inverse: number[];
+  spacingMm: [number, number, number];
+  /** Stored scan values; the physical value is value × slope + inter. */
+  scan: VoxelArray;
+  slope: number;
+  inter: number;
+  values: ValueSummary;
+  /** Default-scheme segment codes on the scan grid; null when the visit's map could not be made. */
+  segments: { codes: Uint8Array; splitIV: boolean; source: 'imported' | 'built' } | null;
+  /** Why there is no segment map, in words (a landmark set the plane rule cannot use, say). */
+  segmentProblem: string | null;
+  /** Lesion-mask lesions on the scan grid: value n is lesion ids[n − 1]. */
+  lesions: { labels: Uint8Array | Uint16Array; ids: string[] } | null;
+  /** World bounding box of the liver mask, when the visit has one. */
+  liverBoxMm: { min: Vec3; max: Vec3 } | null;
+  warnings: string[];
+}
+
+export type VolumesRequest = { type: 'load'; patientId: string; visitId: string };
+
+export type VolumesMessage =
+  | { type: 'progress'; done: number; total: number; step: string }
+  | { type: 'result'; volumes: VisitVolumes }
+  | { type: 'error'; message: string };

@@ -1,0 +1,142 @@
+/// <reference lib="webworker" />
+// Decodes one visit's volumes for the viewer off the window's thread: the scan, its segment map (imported,
+// or built from liver mask and landmarks with the core's own functions, as the analysis does) and the
+// lesion mask's lesions, all brought onto the scan's grid and handed over without copying.
+import { isFalciformError } from '../../src/errors';
+import { lesionsFromMask } from '../../src/lesions/components';
+import type { ManifestVisit } from '../../src/manifest/manifest';
+import type { PatientFiles } from '../../src/patient/load';
+import { buildSegmentMap } from '../../src/segments/build';
+import { importSegmentMap } from '../../src/segments/import';
+import { parseLandmarks } from '../../src/segments/landmarks';
+import { resampleLabels } from '../../src/segments/resample';
+import { parseScheme } from '../../src/segments/scheme';
+import type { SegmentMap } from '../../src/segments/segment-map';
+import type { Volume } from '../../src/volume/volume';
+import { storedPatient } from '../analysis/store-source';
+import { appDb } from '../store/db';
+import { resampleNearest } from '../viewer/resample-nearest';
+import type { VisitVolumes, VolumesMessage, VolumesRequest } from '../viewer/volume-messages';
+import { summariseValues } from '../viewer/window-level';
+
+const scope = self as unknown as DedicatedWorkerGlobalScope;
+const post = (m: VolumesMessage, transfer: Transferable[] = []) => scope.postMessage(m, transfer);
+const message = (e: unknown) => (isFalciformError(e) || e instanceof Error ? e.message : String(e));
+
+/** The visit's segment map by the same rule the analysis uses: an imported map wins over landmarks. */
+async function segmentMapOf(v: ManifestVisit, files: PatientFiles, warnings: string[]): Promise<{ map: SegmentMap; source: 'imported' | 'built' }> {
+  if (v.segments !== undefined) {
+    const labels = await files.volume(v.segments);
+    const scheme = v.scheme === undefined || v.scheme === 'default' ? 'default' : parseScheme(await files.text(v.scheme), files.name(v.scheme));
+    const imported = importSegmentMap(labels.volume, scheme, files.name(v.segments));
+    warnings.push(...imported.warnings);
+    return { map: imported.map, source: 'imported' };
+  }
+  if (v.liver === undefined || v.landmarks === undefined) throw new Error('the visit has neither a segment map nor a liver mask with landmarks');
+  const liver = await files.volume(v.liver);
+  const landmarks = parseLandmarks(await files.text(v.landmarks), files.name(v.landmarks));
+  const caudate = v.caudate !== undefined ? (await files.volume(v.caudate)).volume : undefined;
+  const built = buildSegmentMap(liver.volume, landmarks, {
+    caudate,
+    splitIV: v.splitIV,
+    file: files.name(v.landmarks),
+    liverFile: files.name(v.liver),
+    ...(v.caudate !== undefined ? { caudateFile: files.name(v.caudate) } : {}),
+  });
+  warnings.push(...built.warnings);
+  return { map: built.map, source: 'built' };
+}
+
+/** World box around the liver mask's voxels (for placing a first landmark set). */
+function liverBox(liver: Volume): VisitVolumes['liverBoxMm'] {
+  const [nx, ny, nz] = liver.dims;
+  const lo = [Infinity, Infinity, Infinity], hi = [-Infinity, -Infinity, -Infinity];
+  const { data, slope, inter } = liver;
+  let n = 0;
+  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++, n++) {
+    if (!(data[n] * slope + inter > 0)) continue;
+    if (i < lo[0]) lo[0] = i; if (i > hi[0]) hi[0] = i;
+    if (j < lo[1]) lo[1] = j; if (j > hi[1]) hi[1] = j;
+    if (k < lo[2]) lo[2] = k; if (k > hi[2]) hi[2] = k;
+  }
+  if (lo[0] === Infinity) return null;
+  const A = liver.affine;
+  const min: [number, number, number] = [Infinity, Infinity, Infinity], max: [number, number, number] = [-Infinity, -Infinity, -Infinity];
+  for (const i of [lo[0], hi[0]]) for (const j of [lo[1], hi[1]]) for (const k of [lo[2], hi[2]]) {
+    for (let r = 0; r < 3; r++) {
+      const w = A[r * 4] * i + A[r * 4 + 1] * j + A[r * 4 + 2] * k + A[r * 4 + 3];
+      if (w < min[r]) min[r] = w;
+      if (w > max[r]) max[r] = w;
+    }
+  }
+  return { min, max };
+}
+
+async function load(patientId: string, visitId: string): Promise<void> {
+  const { manifest, files } = await storedPatient(appDb(), patientId);
+  const v = manifest.visits.find((x) => x.id === visitId);
+  if (!v) throw new Error(`visit ${visitId} is not among ${patientId}'s stored visits`);
+  const total = 4;
+  const warnings: string[] = [];
+  post({ type: 'progress', done: 0, total, step: 'reading the scan' });
+  const loaded = await files.volume(v.scan);
+  warnings.push(...loaded.warnings);
+  const scan = loaded.volume;
+  const values = summariseValues(scan.data, scan.slope, scan.inter);
+
+  post({ type: 'progress', done: 1, total, step: v.segments !== undefined ? 'reading the segment map' : 'building the segment map from the landmarks' });
+  let segments: VisitVolumes['segments'] = null;
+  let segmentProblem: string | null = null;
+  try {
+    const { map, source } = await segmentMapOf(v, files, warnings);
+    const names = new Set(map.scheme.values());
+    segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
+  } catch (e) {
+    segmentProblem = message(e);
+  }
+  // Only a visit that could switch to landmarks needs it; a built map has read the liver already.
+  const liverBoxMm = v.liver !== undefined && v.landmarks === undefined ? liverBox((await files.volume(v.liver)).volume) : null;
+
+  post({ type: 'progress', done: 2, total, step: 'outlining the lesions' });
+  let lesions: VisitVolumes['lesions'] = null;
+  if (v.lesions !== undefined) {
+    const mask = (await files.volume(v.lesions)).volume;
+    const found = lesionsFromMask(mask, files.name(v.lesions));
+    // One byte a voxel unless a mask holds more than 255 lesions.
+    const own = found.lesions.length < 256 ? new Uint8Array(mask.data.length) : new Uint16Array(mask.data.length);
+    // Ids as the analysis numbers them: L1, L2, … in the order lesionsFromMask gives.
+    found.lesions.forEach((l, n) => { for (const voxel of l.voxels) own[voxel] = n + 1; });
+    lesions = { labels: resampleNearest(own, mask, scan), ids: found.lesions.map((_, n) => `L${n + 1}`) };
+  }
+
+  post({ type: 'progress', done: 3, total, step: 'preparing the display' });
+  const volumes: VisitVolumes = {
+    patientId,
+    visitId,
+    dims: [...scan.dims],
+    affine: [...scan.affine],
+    inverse: [...scan.inverse],
+    spacingMm: [...scan.spacingMm],
+    scan: scan.data,
+    slope: scan.slope,
+    inter: scan.inter,
+    values,
+    segments,
+    segmentProblem,
+    lesions,
+    liverBoxMm,
+    warnings,
+  };
+  const transfer: Transferable[] = [scan.data.buffer as ArrayBuffer];
+  if (segments) transfer.push(segments.codes.buffer as ArrayBuffer);
+  if (lesions) transfer.push(lesions.labels.buffer as ArrayBuffer);
+  post({ type: 'result', volumes }, transfer);
+}
+
+scope.onmessage = async (e: MessageEvent<VolumesRequest>) => {
+  try {
+    await load(e.data.patientId, e.data.visitId);
+  } catch (err) {
+    post({ type: 'error', message: message(err) });
+  }
+};
