@@ -39,8 +39,9 @@ const visit = z
     if (hasMap === hasPlanes) {
       ctx.addIssue({ code: 'custom', message: 'must give either "segments" or both "liver" and "landmarks"' });
     }
-    if ((v.lesions !== undefined) === (v.marks !== undefined)) {
-      ctx.addIssue({ code: 'custom', message: 'must give either "lesions" or "marks"' });
+    // Marks may add to a lesion mask (lesions the mask missed); at least one of them is needed.
+    if (v.lesions === undefined && v.marks === undefined) {
+      ctx.addIssue({ code: 'custom', message: 'must give "lesions", "marks" or both' });
     }
   });
 

@@ -131,7 +131,6 @@ describe('falciform analyze', () => {
       [...base, '--lesions', f('lesions.nii.gz'), '--json'],
       [...base, '--segments', f('segments.nii.gz'), '--liver', f('liver.nii.gz'), '--landmarks', f('landmarks.json'), '--lesions', f('lesions.nii.gz')],
       [...base, '--segments', f('segments.nii.gz'), '--json'],
-      [...base, '--segments', f('segments.nii.gz'), '--lesions', f('lesions.nii.gz'), '--marks', f('marks.json')],
       [...base, '--liver', f('liver.nii.gz'), '--marks', f('marks.json')],
       [...base, '--segments', f('segments.nii.gz'), '--lesions', f('lesions.nii.gz'), '--margin-mm', 'ten'],
     ]) {
@@ -139,6 +138,16 @@ describe('falciform analyze', () => {
       expect(r.code, args.join(' ')).toBe(2);
       expect(r.stdout).toBe('');
     }
+  });
+
+  it('takes a lesion mask and marks together: the mask\'s lesions, then the marks', async () => {
+    const both = await falciform('analyze', '--scan', f('scan.nii.gz'), '--segments', f('segments.nii.gz'),
+      '--lesions', f('lesions.nii.gz'), '--marks', f('marks.json'), '--json');
+    expect(both.code).toBe(0);
+    const mask = await falciform('analyze', '--scan', f('scan.nii.gz'), '--segments', f('segments.nii.gz'), '--lesions', f('lesions.nii.gz'), '--json');
+    const marks = await falciform('analyze', '--scan', f('scan.nii.gz'), '--segments', f('segments.nii.gz'), '--marks', f('marks.json'), '--json');
+    const ids = (r: { stdout: string }) => (JSON.parse(r.stdout) as { lesions: { id: string }[] }).lesions.map((l) => l.id);
+    expect(ids(both)).toEqual([...ids(mask), ...ids(marks)]);
   });
 
   it('exits 3 with one line naming the file on bad input', async () => {

@@ -46,7 +46,7 @@ export function OverviewTab() {
                   </a>
                 </th>
                 <td>{mv.segments ? 'imported' : 'built from landmarks'}</td>
-                <td>{lesions.length} {mv.lesions ? '(mask)' : '(marks)'}</td>
+                <td>{lesions.length} ({[mv.lesions && 'mask', mv.marks && 'marks'].filter(Boolean).join(' + ')})</td>
                 <td className={f?.marginAlerts.length ? 'alert-cell' : undefined}>{f?.marginAlerts.join(', ') || '—'}</td>
                 <td>{mm(r?.targetSumMm)}</td>
                 <td>{k === 0 ? 'baseline' : pct(r?.changeFromBaselinePct)}</td>

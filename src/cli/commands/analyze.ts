@@ -14,7 +14,7 @@ import { loadVolume, readTextFile } from '../node-io.js';
 
 const USAGE =
   'falciform analyze --scan FILE (--segments FILE [--scheme FILE] | --liver FILE --landmarks FILE) ' +
-  '(--lesions FILE | --marks FILE) [--margin-mm N] [--json]';
+  '(--lesions FILE and/or --marks FILE) [--margin-mm N] [--json]';
 
 export const analyze: Command = {
   summary: 'one visit: segment volumes, lesions, their measures, segments and margin alerts',
@@ -33,7 +33,7 @@ export const analyze: Command = {
     if (segmentsFile === undefined && schemeFile !== undefined) throw new UsageError('--scheme goes with --segments');
     if (liverFile !== undefined && landmarksFile === undefined) throw new UsageError('--liver needs --landmarks');
     if (segmentsFile !== undefined && landmarksFile !== undefined) throw new UsageError('--landmarks goes with --liver, not --segments');
-    if ((lesionsFile === undefined) === (marksFile === undefined)) throw new UsageError('give either --lesions (a lesion mask) or --marks (a marks file)');
+    if (lesionsFile === undefined && marksFile === undefined) throw new UsageError('give --lesions (a lesion mask), --marks (a marks file) or both');
     const marginMm = numberOption(args, 'margin-mm', DEFAULT_MARGIN_MM);
 
     const warnings: string[] = [];
