@@ -1,0 +1,97 @@
+import { CartesianGrid, LabelList, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
+import type { ScatterShapeProps } from 'recharts/types/util/ScatterUtils';
+import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
+import { valueScale, type LesionPoint, type LesionSeries, type TreatmentMarker } from './chart-data';
+import { CHART_MARGIN, ChartFrame, fmtMm, GRID, hovered, INK, lineCasing, TipBox, timeAxisProps, treatmentLines, valueAxisLabel } from './chart-parts';
+import { SegmentLegend } from './SegmentLegend';
+
+const STATUS_WORDS: Record<string, string> = { present: 'present', gone: 'gone', merged: 'merged into another lesion', 'not-evaluable': 'outside the scanned field' };
+
+/** A point of a lesion track: filled for a RECIST target, open for the others. */
+function lesionDot(series: LesionSeries) {
+  function LesionDot(props: ScatterShapeProps) {
+    const p = props.payload as LesionPoint;
+    if (props.cx === undefined || props.cy === undefined) return <g />;
+    const colour = segmentColour(p.segment);
+    return (
+      <circle
+        cx={props.cx}
+        cy={props.cy}
+        r={series.target ? 5 : 3.5}
+        fill={colour}
+        stroke={needsOutline(p.segment) ? OUTLINE_INK : '#fff'}
+        strokeWidth={1.2}
+        className="chart-point"
+        data-chart="lesion"
+        data-track={p.track}
+        data-visit={p.visit}
+        data-mm={p.mm}
+        data-segment={p.segment ?? 'outside'}
+      />
+    );
+  }
+  return LesionDot;
+}
+
+/** Longest axial diameter of every lesion track over time, coloured by segment. */
+export function LesionChart(props: { series: LesionSeries[]; domain: [number, number]; ticks: number[]; treatments: TreatmentMarker[] }) {
+  const { series } = props;
+  const y = valueScale(series.flatMap((s) => s.points.map((p) => p.mm)));
+  const lastOf = (s: LesionSeries) => s.points[s.points.length - 1];
+  const width = (s: LesionSeries) => (s.target ? 2.4 : 1.4);
+  return (
+    <ChartFrame
+      id="lesions"
+      title="Longest axial diameter per lesion track"
+      note="Larger points and heavier lines: RECIST targets. A gone or merged track is drawn at 0 mm."
+      legend={<SegmentLegend entries={series.map((s) => ({ segment: s.segment, label: s.track }))} />}
+      values={
+        <table className="data-table compact fit" data-testid="values-lesions">
+          <thead><tr><th scope="col">Track</th><th scope="col">Visit</th><th scope="col">Date</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th><th scope="col">Status</th></tr></thead>
+          <tbody>
+            {series.flatMap((s) => s.points.map((p) => (
+              <tr key={`${p.track}-${p.visit}`} data-testid="lesion-value" data-track={p.track} data-visit={p.visit} data-mm={p.mm}>
+                <th scope="row">{p.track}{s.target ? ' (target)' : ''}</th><td>{p.visit}</td><td>{p.date}</td><td>{p.segment ?? 'outside'}</td><td className="num">{p.mm}</td><td>{STATUS_WORDS[p.status] ?? p.status}</td>
+              </tr>
+            )))}
+          </tbody>
+        </table>
+      }
+    >
+      <ScatterChart responsive style={{ width: '100%', height: 300 }} margin={CHART_MARGIN}>
+        <CartesianGrid stroke={GRID} />
+        <XAxis {...timeAxisProps(props.domain, props.ticks)} />
+        <YAxis type="number" dataKey="mm" domain={[0, y.max]} ticks={y.ticks} tick={{ fontSize: 11 }} label={valueAxisLabel('Longest axial diameter (mm)')} width={62} />
+        {treatmentLines(props.treatments)}
+        {series.filter((s) => needsOutline(s.segment)).map((s) => lineCasing(s.track, s.points, 'mm', width(s)))}
+        {series.map((s) => {
+          const colour = segmentColour(s.segment);
+          const last = lastOf(s);
+          return (
+            <Scatter
+              key={s.track}
+              name={s.track}
+              data={s.points.map((p) => ({ ...p, tag: p === last ? s.track : undefined }))}
+              dataKey="mm"
+              line={{ stroke: colour, strokeWidth: width(s), strokeDasharray: segmentDash(s.segment) }}
+              lineJointType="linear"
+              shape={lesionDot(s)}
+              isAnimationActive={false}
+            >
+              <LabelList dataKey="tag" position="right" offset={8} fontSize={11} fill={INK} />
+            </Scatter>
+          );
+        })}
+        <Tooltip
+          cursor={false}
+          isAnimationActive={false}
+          content={(tp) => {
+            const p = hovered<LesionPoint>(tp);
+            if (!p) return null;
+            return <TipBox title={`${p.track} · ${p.date} (${p.visit})`} lines={[['Longest axial', fmtMm(p.mm)], ['Segment', p.segment ?? 'outside'], ['Status', STATUS_WORDS[p.status] ?? p.status]]} />;
+          }}
+        />
+      </ScatterChart>
+    </ChartFrame>
+  );
+}

@@ -1,0 +1,103 @@
+import { CartesianGrid, LabelList, ReferenceDot, ReferenceLine, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
+import type { ScatterShapeProps } from 'recharts/types/util/ScatterUtils';
+import { PD_INCREASE, PD_MIN_INCREASE_MM, PR_DECREASE, round1 } from '../../src/followup/recist';
+import { valueScale, type ResponseChartData, type ResponsePoint, type TreatmentMarker } from './chart-data';
+import { CHART_MARGIN, ChartFrame, fmtMm, fmtPct, GRID, hovered, INK, MUTED, TipBox, timeAxisProps, treatmentLines, valueAxisLabel } from './chart-parts';
+
+const SUM_INK = '#0b4f6c';
+
+function ResponseDot(props: ScatterShapeProps) {
+  const p = props.payload as ResponsePoint;
+  if (props.cx === undefined || props.cy === undefined) return <g />;
+  return (
+    <circle
+      cx={props.cx}
+      cy={props.cy}
+      r={5}
+      fill={p.complete ? SUM_INK : '#fff'}
+      stroke={SUM_INK}
+      strokeWidth={1.8}
+      className="chart-point"
+      data-chart="response"
+      data-visit={p.visit}
+      data-sum={p.sumMm}
+      data-category={p.category ?? 'baseline'}
+    />
+  );
+}
+
+/**
+ * The sum of target diameters at each visit with its response category, the baseline sum as a line,
+ * the nadir ringed, and where the next visit would cross into PR or PD (RECIST 1.1: a 30% decrease
+ * from baseline; a 20% and at least 5 mm increase over the nadir).
+ */
+export function ResponseChart(props: { data: ResponseChartData; domain: [number, number]; ticks: number[]; treatments: TreatmentMarker[] }) {
+  const { data } = props;
+  const prLine = round1(data.baselineMm * (1 - PR_DECREASE));
+  const nadirMm = data.nadir?.sumMm ?? data.baselineMm;
+  const pdLine = round1(nadirMm + Math.max(PD_INCREASE * nadirMm, PD_MIN_INCREASE_MM));
+  const y = valueScale([...data.points.map((p) => p.sumMm), data.baselineMm, pdLine]);
+  const points = data.points.map((p, k) => ({ ...p, tag: k === 0 ? 'baseline' : (p.category ?? '—') }));
+  const targets = data.targets.length ? `targets ${data.targets.join(', ')}` : 'no target lesions';
+  return (
+    <ChartFrame
+      id="response"
+      title={`Sum of target diameters, ${data.criteria}${data.criteria === 'mRECIST' ? ' (viable tumour)' : ''}`}
+      note={<>Response at each visit above its point; {targets}. Dashed: baseline sum. Ringed: nadir so far. Dotted: where the next visit would reach PR or PD. An open point lacks a target that could not be evaluated.</>}
+      values={
+        <table className="data-table compact fit" data-testid="values-response">
+          <thead><tr><th scope="col">Visit</th><th scope="col">Date</th><th scope="col">Sum (mm)</th><th scope="col">vs baseline</th><th scope="col">vs nadir</th><th scope="col">Nadir before (mm)</th><th scope="col">Response</th></tr></thead>
+          <tbody>
+            {data.points.map((p, k) => (
+              <tr key={p.visit} data-testid="response-value" data-visit={p.visit} data-sum={p.sumMm} data-category={p.category ?? 'baseline'}>
+                <th scope="row">{p.visit}</th><td>{p.date}</td><td className="num">{p.sumMm}{p.complete ? '' : ' (incomplete)'}</td>
+                <td className="num">{k === 0 ? 'baseline' : fmtPct(p.changeFromBaselinePct)}</td><td className="num">{k === 0 ? '—' : fmtPct(p.changeFromNadirPct)}</td>
+                <td className="num">{p.nadirSumMm}</td><td>{k === 0 ? 'baseline' : (p.category ?? '—')}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      }
+    >
+      <ScatterChart responsive style={{ width: '100%', height: 280 }} margin={CHART_MARGIN}>
+        <CartesianGrid stroke={GRID} />
+        <XAxis {...timeAxisProps(props.domain, props.ticks)} />
+        <YAxis type="number" dataKey="sumMm" domain={[0, y.max]} ticks={y.ticks} tick={{ fontSize: 11 }} label={valueAxisLabel('Sum of diameters (mm)')} width={62} />
+        {treatmentLines(props.treatments)}
+        <ReferenceLine y={data.baselineMm} stroke={MUTED} strokeDasharray="6 4" label={{ value: `baseline ${data.baselineMm} mm`, position: 'insideBottomRight', fontSize: 10, fill: MUTED }} />
+        {data.points.length > 1 && data.baselineMm > 0 && (
+          <ReferenceLine y={prLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: `PR threshold, −30% from baseline: ${prLine} mm`, position: 'insideBottomLeft', fontSize: 10, fill: MUTED }} />
+        )}
+        {data.points.length > 1 && (
+          <ReferenceLine y={pdLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: `PD threshold, +20% and ≥ 5 mm over the nadir: ${pdLine} mm`, position: 'insideTopLeft', fontSize: 10, fill: MUTED }} />
+        )}
+        {data.nadir && data.points.length > 1 && (
+          <ReferenceDot x={data.nadir.t} y={data.nadir.sumMm} r={10} fill="none" stroke={INK} strokeWidth={1.2} className="nadir-marker" label={{ value: 'nadir', position: 'bottom', offset: 12, fontSize: 10, fill: INK }} />
+        )}
+        <Scatter name="sum" data={points} dataKey="sumMm" line={{ stroke: SUM_INK, strokeWidth: 2 }} shape={ResponseDot} isAnimationActive={false}>
+          <LabelList dataKey="tag" position="top" offset={10} fontSize={11} fontWeight={600} fill={INK} />
+        </Scatter>
+        <Tooltip
+          cursor={false}
+          isAnimationActive={false}
+          content={(tp) => {
+            const p = hovered<ResponsePoint>(tp);
+            if (!p) return null;
+            const first = p.visit === data.points[0]?.visit;
+            return (
+              <TipBox
+                title={`${p.date} (${p.visit})`}
+                lines={[
+                  ['Sum of diameters', `${fmtMm(p.sumMm)}${p.complete ? '' : ' (incomplete)'}`],
+                  ['vs baseline', first ? 'baseline' : fmtPct(p.changeFromBaselinePct)],
+                  ['vs nadir', first ? '—' : `${fmtPct(p.changeFromNadirPct)} (nadir ${fmtMm(p.nadirSumMm)})`],
+                  ['Response', first ? 'baseline' : (p.category ?? '—')],
+                ]}
+              />
+            );
+          }}
+        />
+      </ScatterChart>
+    </ChartFrame>
+  );
+}

@@ -1,0 +1,35 @@
+import type { SegmentName } from '../../src/segments/segment-map.js';
+import { SEGMENT_COLOURS } from '../viewer/palette.js';
+
+/**
+ * How a segment is drawn in charts and the diagram: the app's one segment colour (see the palette),
+ * a dash for IVb (it shares IV's colour), and a dark outline for colours too light to see as thin
+ * lines or small dots on white (Okabe-Ito yellow).
+ */
+
+/** Lesions outside every segment: neutral grey, as in the board summary. */
+export const OUTSIDE_COLOUR = '#7f7f7f';
+export const OUTLINE_INK = '#3b4348';
+
+export function segmentColour(segment: SegmentName | null | undefined): string {
+  return segment ? SEGMENT_COLOURS[segment] : OUTSIDE_COLOUR;
+}
+
+/** SVG stroke-dasharray for the segment's lines, where its colour alone does not tell it apart. */
+export function segmentDash(segment: SegmentName | null | undefined): string | undefined {
+  return segment === 'IVb' ? '6 3' : undefined;
+}
+
+/** Relative luminance (WCAG 2 definition) of a #rrggbb colour. */
+export function luminance(hex: string): number {
+  const [r, g, b] = [1, 3, 5].map((at) => {
+    const c = parseInt(hex.slice(at, at + 2), 16) / 255;
+    return c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+  });
+  return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+}
+
+/** A colour with under 1.5:1 contrast against white needs an outline to be seen. */
+export function needsOutline(segment: SegmentName | null | undefined): boolean {
+  return (1.05 / (luminance(segmentColour(segment)) + 0.05)) < 1.5;
+}

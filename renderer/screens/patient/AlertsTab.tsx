@@ -1,0 +1,57 @@
+import { usePatient } from '../../analysis/PatientContext';
+import { alertRows } from '../../charts/alert-rows';
+import { oneDecimal } from '../../charts/chart-parts';
+import { go, routeHash } from '../../navigation';
+
+/** Lesions closer than the set margin to another segment, at every visit; each opens in the visit view. */
+export function AlertsTab() {
+  const { patient, analysis } = usePatient();
+  if (!analysis) return null;
+  const f = analysis.followup;
+  const rows = alertRows(f, analysis.visits);
+  const latest = analysis.visits[analysis.visits.length - 1]?.id;
+  return (
+    <section aria-labelledby="alerts-title">
+      <h3 id="alerts-title">Margin alerts</h3>
+      <p className="chart-note">
+        Lesions whose nearest voxel lies less than {f.marginMm} mm (the set margin for this patient) from another segment; 0 mm means the
+        lesion spans two segments. A lesion near a border may commit a resection or ablation plan to the neighbouring segment.
+      </p>
+      {rows.length === 0 ? (
+        <p className="empty" data-testid="no-alerts">No lesion lies within {f.marginMm} mm of another segment at any visit.</p>
+      ) : (
+        <table className="data-table alert-table" data-testid="alert-table">
+          <thead>
+            <tr>
+              <th scope="col">Date</th><th scope="col">Visit</th><th scope="col">Lesion</th><th scope="col">Track</th><th scope="col">Segment</th>
+              <th scope="col">Neighbouring segment</th><th scope="col">Distance to border (mm)</th><th scope="col">Longest axial (mm)</th>
+              <th scope="col"><span className="sr-only">Open</span></th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((r) => {
+              const to = { screen: 'visit' as const, patientId: patient.id, visitId: r.visit, lesionId: r.lesion };
+              return (
+                <tr key={`${r.visit}/${r.lesion}`} data-testid="alert-row" data-visit={r.visit} data-lesion={r.lesion} className={r.visit === latest ? 'latest' : undefined}>
+                  <td>{r.date}</td>
+                  <td>{r.visit}{r.visit === latest ? <span className="badge">latest</span> : null}</td>
+                  <th scope="row">{r.lesion}</th>
+                  <td>{r.track ?? '—'}</td>
+                  <td>{r.segment ?? 'outside'}</td>
+                  <td>{r.nearestOtherSegment ?? '—'}</td>
+                  <td className="num alert-cell" data-testid="alert-margin">{oneDecimal(r.marginMm)}</td>
+                  <td className="num">{oneDecimal(r.longestAxialMm)}</td>
+                  <td>
+                    <a href={routeHash(to)} onClick={(e) => { e.preventDefault(); go(to); }} data-testid="alert-open">
+                      Show {r.lesion} in the viewer ›
+                    </a>
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      )}
+    </section>
+  );
+}
