@@ -1,10 +1,136 @@
+import { randomBytes } from 'node:crypto';
+import { mkdir, rename, unlink, writeFile } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { gzipSync } from 'node:zlib';
+import { CAUTION } from '../../caution.js';
+import { badFile } from '../../errors.js';
+import { parseManifest, resolveManifestPath } from '../../manifest/manifest.js';
+import type { LoadedVisit, PatientFiles } from '../../patient/load.js';
+import { remnantForPatient } from '../../remnant/for-patient.js';
+import { resectionPreset, RESECTION_PRESETS } from '../../remnant/resections.js';
+import { buildBoardSummary } from '../../report/board-summary.js';
+import { boardDocument } from '../../report/board-html.js';
+import { PAGE_SIZES, type PageSize } from '../../report/board-style.js';
+import { caseFormCsv, caseFormRows } from '../../report/case-form.js';
+import { utf8 } from '../../report/csv.js';
+import type { ReportInput } from '../../report/input.js';
+import { keyedPseudonym, pseudonymNote, randomPseudonym, type Pseudonym } from '../../report/pseudonym.js';
+import { customSchemeJson } from '../../report/scheme-export.js';
+import { segmentMapFileName, segmentMapNifti } from '../../report/segment-map-export.js';
+import { loadVisitWithMap } from '../../report/visit-maps.js';
+import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
+import { loadVolume, readTextFile } from '../node-io.js';
+import { followupOfPatient } from '../patient.js';
+import { findBrowser, printToPdf } from '../print-pdf.js';
 
-// Placeholder until the report command is built; it is replaced whole.
+const USAGE =
+  'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key KEY] [--resection NAME] [--no-pdf]';
+
 export const report: Command = {
-  summary: '(report is not built yet)',
-  usage: 'falciform report',
-  async run() {
-    throw new Error('falciform report is not built yet');
+  summary: 'board summary (HTML, and PDF where Chromium or Chrome is installed), case-form CSV, segment maps as NIfTI',
+  usage: USAGE,
+  async run(argv) {
+    const args = parseArgs(argv, ['out', 'page', 'pseudonym-key', 'resection'], ['pseudonymise', 'no-pdf']);
+    if (args.positional.length !== 1) throw new UsageError(args.positional.length === 0 ? 'name the study manifest' : `unexpected argument "${args.positional[1]}"`);
+    const manifestFile = args.positional[0];
+    const outDir = requireOption(args, 'out');
+    const page = pageOption(optionalOption(args, 'page'));
+    const key = optionalOption(args, 'pseudonym-key');
+    const resection = optionalOption(args, 'resection');
+    if (resection !== undefined && !resectionPreset(resection)) {
+      throw new UsageError(`unknown resection "${resection}"; known: ${RESECTION_PRESETS.map((p) => p.id).join(', ')}`);
+    }
+
+    const manifest = parseManifest(await readTextFile(manifestFile), manifestFile);
+    const resolvePath = (rel: string) => resolveManifestPath(manifestFile, rel);
+    const source: PatientFiles = { name: resolvePath, volume: (rel) => loadVolume(resolvePath(rel)), text: (rel) => readTextFile(resolvePath(rel)) };
+    try {
+      await mkdir(outDir, { recursive: true });
+    } catch (e) {
+      throw badFile(outDir, `the output folder cannot be made: ${e instanceof Error ? e.message : String(e)}`);
+    }
+
+    const written: string[] = [];
+    const notes: string[] = [];
+    const put = async (name: string, bytes: Uint8Array) => {
+      const path = join(outDir, name);
+      await writeAtomic(path, bytes);
+      written.push(path);
+    };
+
+    // One visit at a time: analyse it, write its segment map, keep only the analysis.
+    const visits: LoadedVisit[] = [];
+    for (const mv of manifest.visits) {
+      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id);
+      visits.push(visit);
+      await put(segmentMapFileName(mv.id), gzipSync(segmentMapNifti(segmentMap, mv.id)));
+      const scheme = customSchemeJson(segmentMap.scheme);
+      if (scheme) await put(`segments-${mv.id}.scheme.json`, utf8(scheme));
+    }
+    const followup = followupOfPatient({ manifest, manifestFile, visits });
+    // The manifest's proposed resection, or the one named on the command line, on the latest visit.
+    const latest = visits[visits.length - 1];
+    const remnant = remnantForPatient(
+      manifest,
+      { id: latest.manifest.id, date: latest.manifest.date, volumetry: latest.volumetry, lesions: latest.analysis.lesions },
+      { ...(resection ? { resection: { preset: resection } } : {}), tracks: followup.tracks },
+    );
+
+    const pseudonym: Pseudonym | null =
+      key !== undefined ? await keyedPseudonym(manifest.patient.id, key) : args.options.has('pseudonymise') ? randomPseudonym() : null;
+    const input: ReportInput = {
+      manifest,
+      visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings })),
+      followup,
+      remnant,
+    };
+    if (remnant) remnant.warnings.forEach((w) => notes.push(`remnant: ${w}`));
+    const summary = buildBoardSummary(input, { madeAt: new Date(), pseudonym });
+    const htmlPath = join(outDir, 'board-summary.html');
+    await put('board-summary.html', utf8(boardDocument(summary, page)));
+    await put('case-form.csv', utf8(caseFormCsv(caseFormRows(input, pseudonym?.id ?? manifest.patient.id))));
+
+    if (!args.options.has('no-pdf')) {
+      const browser = findBrowser();
+      if (!browser) {
+        notes.push('board-summary.pdf not made: no Chromium or Chrome found (set FALCIFORM_BROWSER to one); open board-summary.html and print it.');
+      } else {
+        const pdfPath = join(outDir, 'board-summary.pdf');
+        const tmp = join(outDir, `.board-summary.${randomBytes(6).toString('hex')}.pdf`);
+        try {
+          await printToPdf(browser, htmlPath, tmp);
+          await rename(tmp, pdfPath);
+          written.push(pdfPath);
+        } catch (e) {
+          await unlink(tmp).catch(() => undefined);
+          notes.push(`board-summary.pdf not made: ${e instanceof Error ? e.message : String(e)}; open board-summary.html and print it.`);
+        }
+      }
+    }
+
+    const lines = [`Wrote for patient ${summary.patient.label} (${page} page):`, ...written.map((p) => `  ${p}`)];
+    if (pseudonym) lines.push(pseudonymNote(pseudonym));
+    lines.push(...notes, CAUTION, '');
+    process.stdout.write(lines.join('\n'));
   },
 };
+
+function pageOption(v: string | undefined): PageSize {
+  if (v === undefined) return 'A4';
+  const found = PAGE_SIZES.find((p) => p.toLowerCase() === v.toLowerCase());
+  if (!found) throw new UsageError(`--page must be A4 or Letter, got "${v}"`);
+  return found;
+}
+
+/** Written beside the final name and renamed, so a failure never leaves a half-written output. */
+async function writeAtomic(path: string, bytes: Uint8Array): Promise<void> {
+  const tmp = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
+  try {
+    await writeFile(tmp, bytes);
+    await rename(tmp, path);
+  } catch (e) {
+    await unlink(tmp).catch(() => undefined);
+    throw badFile(path, `cannot be written: ${e instanceof Error ? e.message : String(e)}`);
+  }
+}

@@ -1,0 +1,156 @@
+import { useEffect, useMemo, useState } from 'react';
+import { createPortal, flushSync } from 'react-dom';
+import { isFalciformError } from '../../../src/errors';
+import { remnantForPatient, type PatientRemnant } from '../../../src/remnant/for-patient';
+import { boardSheetHtml } from '../../../src/report/board-html';
+import { PAGE_SIZES, type PageSize } from '../../../src/report/board-style';
+import { buildBoardSummary } from '../../../src/report/board-summary';
+import { caseFormCsv, caseFormRows } from '../../../src/report/case-form';
+import { utf8 } from '../../../src/report/csv';
+import type { ReportInput } from '../../../src/report/input';
+import { keyedPseudonym, randomPseudonym, type Pseudonym } from '../../../src/report/pseudonym';
+import { segmentMapFileName } from '../../../src/report/segment-map-export';
+import { usePatient } from '../../analysis/PatientContext';
+import { desktopBridge, saveBytes } from '../../platform/bridge';
+import { useBoardStylesheet } from '../../report/board-stylesheet';
+import { exportSegmentMap } from '../../report/export-segment-map';
+
+type Status = { kind: 'done' | 'problem' | 'busy'; text: string } | null;
+
+const message = (e: unknown) => (isFalciformError(e) || e instanceof Error ? e.message : String(e));
+
+/**
+ * The board summary as it will print, with its outputs: the page (printed or saved as PDF), the
+ * case-form CSV and each visit's segment map as NIfTI. The page is the core's own HTML, the same
+ * the command line writes; its values are escaped there, so it is shown as it is.
+ */
+export function BoardTab() {
+  const { patient, analysis } = usePatient();
+  const [page, setPage] = useState<PageSize>('A4');
+  const [pseudonymise, setPseudonymise] = useState(false);
+  const [key, setKey] = useState('');
+  const [pseudonym, setPseudonym] = useState<Pseudonym | null>(null);
+  const [madeAt, setMadeAt] = useState(() => new Date());
+  const [status, setStatus] = useState<Status>(null);
+  useBoardStylesheet(page);
+
+  // A random pseudonym is drawn each time pseudonymising is switched on; a keyed one follows the key.
+  useEffect(() => {
+    let live = true;
+    if (!pseudonymise) setPseudonym(null);
+    else if (key) void keyedPseudonym(patient.id, key).then((p) => live && setPseudonym(p));
+    else setPseudonym(randomPseudonym());
+    return () => { live = false; };
+  }, [pseudonymise, key, patient.id]);
+
+  const input = useMemo<ReportInput | null>(() => {
+    if (!analysis) return null;
+    const latest = analysis.visits[analysis.visits.length - 1];
+    let remnant: PatientRemnant | null;
+    try {
+      // The stored record's resection and body size, which may be newer than the analysed manifest.
+      remnant = latest ? remnantForPatient(
+        analysis.manifest,
+        { id: latest.id, date: latest.date, volumetry: latest.volumetry, lesions: latest.analysis.lesions },
+        {
+          ...(patient.resection ? { resection: patient.resection } : {}),
+          body: { heightCm: patient.heightCm ?? null, weightKg: patient.weightKg ?? null },
+          tracks: analysis.followup.tracks,
+        },
+      ) : null;
+    } catch {
+      remnant = null; // the Remnant tab shows why; the page goes without the line
+    }
+    return { manifest: analysis.manifest, visits: analysis.visits, followup: analysis.followup, remnant };
+  }, [analysis, patient.resection, patient.heightCm, patient.weightKg]);
+
+  const pending = pseudonymise && !pseudonym;
+  const summary = useMemo(() => (input && !pending ? buildBoardSummary(input, { madeAt, pseudonym }) : null), [input, madeAt, pseudonym, pending]);
+  const html = useMemo(() => (summary ? boardSheetHtml(summary) : ''), [summary]);
+  if (!analysis || !input || !summary) return <p className="empty">Preparing the board summary…</p>;
+  const label = summary.patient.label;
+
+  const print = async () => {
+    // The page says when it was made: the moment of printing.
+    flushSync(() => setMadeAt(new Date()));
+    const bridge = desktopBridge();
+    if (!bridge) {
+      window.print();
+      return;
+    }
+    try {
+      setStatus({ kind: 'busy', text: 'Making the PDF…' });
+      const r = await bridge.printToPdf({ suggestedName: `${label}-board-summary.pdf`, pageSize: page });
+      setStatus(r.saved ? { kind: 'done', text: 'Board summary saved as PDF.' } : null);
+    } catch (e) {
+      setStatus({ kind: 'problem', text: `The PDF was not made: ${message(e)}` });
+    }
+  };
+
+  const exportCsv = async () => {
+    try {
+      const csv = caseFormCsv(caseFormRows(input, label));
+      const saved = await saveBytes(`${label}-case-form.csv`, utf8(csv), 'text/csv');
+      setStatus(saved ? { kind: 'done', text: `Case form exported (${csv.split('\r\n').length - 2} rows).` } : null);
+    } catch (e) {
+      setStatus({ kind: 'problem', text: `The case form was not exported: ${message(e)}` });
+    }
+  };
+
+  const exportMap = async (visitId: string) => {
+    try {
+      setStatus({ kind: 'busy', text: `Encoding the segment map of ${visitId}…` });
+      const bytes = await exportSegmentMap(patient.id, visitId);
+      const saved = await saveBytes(`${label}-${segmentMapFileName(visitId)}`, bytes, 'application/gzip');
+      setStatus(saved ? { kind: 'done', text: `Segment map of ${visitId} exported as NIfTI-1 (.nii.gz).` } : null);
+    } catch (e) {
+      setStatus({ kind: 'problem', text: `The segment map of ${visitId} was not exported: ${message(e)}` });
+    }
+  };
+
+  return (
+    <section className="board-tab" aria-labelledby="board-title" data-testid="board-tab">
+      <h3 id="board-title" className="sr-only">Board summary</h3>
+      <div className="board-controls">
+        <label>
+          Paper
+          <select data-testid="board-page" value={page} onChange={(e) => setPage(e.target.value as PageSize)}>
+            {PAGE_SIZES.map((p) => <option key={p} value={p}>{p}</option>)}
+          </select>
+        </label>
+        <label>
+          <input type="checkbox" data-testid="board-pseudonymise" checked={pseudonymise} onChange={(e) => setPseudonymise(e.target.checked)} />
+          Pseudonymise
+        </label>
+        {pseudonymise && (
+          <label>
+            Key (optional, for a stable pseudonym)
+            <input type="password" data-testid="board-key" value={key} autoComplete="off" onChange={(e) => setKey(e.target.value)} />
+          </label>
+        )}
+        <div className="board-actions">
+          <button type="button" className="primary" data-testid="board-print" onClick={() => void print()}>Print / save as PDF</button>
+          <button type="button" data-testid="board-csv" onClick={() => void exportCsv()}>Export case form (CSV)</button>
+        </div>
+      </div>
+      <div className="board-maps">
+        <span className="board-maps-title">Export segment map (NIfTI):</span>
+        {analysis.visits.map((v) => (
+          <button key={v.id} type="button" data-testid="board-map" data-visit={v.id} onClick={() => void exportMap(v.id)}>
+            {v.id} ({v.date})
+          </button>
+        ))}
+      </div>
+      {status && (
+        <p className={`notice board-status ${status.kind === 'problem' ? 'problem' : 'done'}`} role={status.kind === 'problem' ? 'alert' : 'status'} data-testid="board-status">
+          {status.text}
+        </p>
+      )}
+      <div className="board-preview" data-testid="board-preview">
+        {/* The core's HTML, every value escaped there (src/report/html-escape.ts). */}
+        <div className={`board-paper page-${page}`} dangerouslySetInnerHTML={{ __html: html }} />
+      </div>
+      {createPortal(<div className="board-print-root" dangerouslySetInnerHTML={{ __html: html }} />, document.body)}
+    </section>
+  );
+}

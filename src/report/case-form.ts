@@ -1,0 +1,114 @@
+import { CAUTION } from '../caution.js';
+import type { FollowupResult, TrackSummary } from '../followup/followup.js';
+import { SEGMENT_NAMES } from '../segments/segment-map.js';
+import type { LesionResult } from '../visit/analyze.js';
+import { VERSION } from '../version.js';
+import { toCsv } from './csv.js';
+import { daysBetween, lesionsOfTrack, type ReportInput } from './input.js';
+
+/**
+ * The case-form export: one row per lesion per visit, plus one row per lesion track that is absent at
+ * a visit (gone, merged or not evaluable), so a vanished target is a row and not a silence. Numbers
+ * are rounded as `falciform analyze --json` rounds them; a missing value is an empty field. The
+ * columns are described in docs/case-form.md; keep the two together.
+ */
+export const CASE_FORM_COLUMNS = [
+  'patient', 'visit', 'date', 'days_from_baseline', 'track', 'lesion', 'status', 'source', 'segment',
+  'segment_fractions', 'longest_axial_mm', 'short_axis_mm', 'volume_ml', 'margin_mm', 'nearest_other_segment',
+  'margin_alert', 'set_margin_mm', 'target', 'new_lesion', 'response', 'criteria', 'target_sum_mm',
+  'change_from_baseline_pct', 'change_from_nadir_pct', 'software', 'caution',
+] as const;
+
+export type CaseFormColumn = (typeof CASE_FORM_COLUMNS)[number];
+export type CaseFormRow = Record<CaseFormColumn, string>;
+
+/** Shortest decimal of x rounded to `digits` places: 24.67, 14, 0.4 (as the JSON outputs give them). */
+export function decimal(x: number | null | undefined, digits: number): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '';
+  const f = 10 ** digits;
+  const y = Math.round(x * f) / f;
+  return String(Object.is(y, -0) ? 0 : y);
+}
+
+const yesNo = (b: boolean) => (b ? 'yes' : 'no');
+
+/** "V:0.47;VIII:0.53", segments in anatomical order. */
+export function fractionsText(fractions: LesionResult['segmentFractions']): string {
+  const f = fractions as Partial<Record<string, number>>;
+  return SEGMENT_NAMES.filter((s) => (f[s] ?? 0) > 0).map((s) => `${s}:${decimal(f[s], 4)}`).join(';');
+}
+
+/** `patientLabel` is the id to write: the real one, or a pseudonym. */
+export function caseFormRows(input: ReportInput, patientLabel: string): CaseFormRow[] {
+  const f: FollowupResult = input.followup;
+  const baseline = f.visits[0];
+  const rows: CaseFormRow[] = [];
+  const byVisit = new Map(input.visits.map((v) => [v.id, v]));
+  f.visits.forEach((v, k) => {
+    const lesions = byVisit.get(v.id)?.analysis.lesions ?? [];
+    const trackOf = new Map<string, TrackSummary>();
+    for (const t of f.tracks) for (const id of lesionsOfTrack(t, v.id)) trackOf.set(id, t);
+    const r = v.response;
+    const visitFields = {
+      patient: patientLabel,
+      visit: v.id,
+      date: v.date,
+      days_from_baseline: String(daysBetween(baseline.date, v.date)),
+      set_margin_mm: decimal(f.marginMm, 2),
+      response: k === 0 ? '' : (v.overall ?? ''),
+      criteria: f.criteria,
+      target_sum_mm: decimal(r.targetSumMm, 2),
+      change_from_baseline_pct: k === 0 ? '' : decimal(r.changeFromBaselinePct, 1),
+      change_from_nadir_pct: k === 0 ? '' : decimal(r.changeFromNadirPct, 1),
+      software: `Falciform ${VERSION}`,
+      caution: CAUTION,
+    };
+    for (const l of lesions) {
+      const t = trackOf.get(l.id);
+      rows.push({
+        ...visitFields,
+        track: t?.id ?? '',
+        lesion: l.id,
+        status: 'present',
+        source: l.source,
+        segment: l.segment ?? 'outside',
+        segment_fractions: fractionsText(l.segmentFractions),
+        longest_axial_mm: decimal(l.longestAxialMm, 2),
+        short_axis_mm: decimal(l.shortAxisMm, 2),
+        volume_ml: decimal(l.volumeMl, 3),
+        margin_mm: decimal(l.marginMm, 2),
+        nearest_other_segment: l.nearestOtherSegment ?? '',
+        // Against the follow-up's set margin, as the follow-up's own alerts are.
+        margin_alert: yesNo(l.marginMm !== null && l.marginMm < f.marginMm),
+        target: yesNo(t?.target ?? false),
+        new_lesion: yesNo(t !== undefined && k > 0 && t.firstVisit === v.id),
+      });
+    }
+    for (const t of f.tracks) {
+      const status = t.status[v.id];
+      if (!status || status === 'present') continue;
+      rows.push({
+        ...visitFields,
+        track: t.id,
+        lesion: '',
+        status,
+        source: '',
+        segment: '',
+        segment_fractions: '',
+        longest_axial_mm: status === 'not-evaluable' ? '' : '0',
+        short_axis_mm: '',
+        volume_ml: '',
+        margin_mm: '',
+        nearest_other_segment: '',
+        margin_alert: 'no',
+        target: yesNo(t.target),
+        new_lesion: 'no',
+      });
+    }
+  });
+  return rows;
+}
+
+export function caseFormCsv(rows: readonly CaseFormRow[]): string {
+  return toCsv(CASE_FORM_COLUMNS, rows);
+}

@@ -1,0 +1,84 @@
+import { describe, expect, it } from 'vitest';
+import { buildBoardSummary, MAX_TABLE_VISITS, MAX_TRACK_ROWS, MAX_VISIT_ROWS } from '../../src/report/board-summary.js';
+import { segmentDiagramSvg } from '../../src/report/segment-diagram-svg.js';
+import { sizeChartSvg } from '../../src/report/size-chart-svg.js';
+import { OKABE_ITO, SEGMENT_COLOURS } from '../../src/report/palette.js';
+import { syntheticPatient } from './fixtures.js';
+
+const madeAt = new Date(Date.UTC(2026, 5, 30, 8, 5));
+
+describe('board summary model', () => {
+  it('carries the latest response, the targets and when it was made', () => {
+    const input = syntheticPatient({ visits: 4, lesions: 5 });
+    const s = buildBoardSummary(input, { madeAt });
+    const f = input.followup;
+    expect(s.latest.id).toBe('v4');
+    expect(s.latest.response).toBe(f.visits[3].overall);
+    expect(s.visits.map((v) => v.response)).toEqual(['baseline', ...f.visits.slice(1).map((v) => v.overall)]);
+    expect(s.targets).toEqual(f.targets);
+    expect(s.madeAt).toBe('2026-06-30 08:05 UTC');
+    expect(s.patient.facts.map((x) => x.label)).toEqual(['Born', 'Sex', 'Height', 'Weight']);
+    expect(s.lesionTable.rows.filter((r) => r.target).map((r) => r.id)).toEqual(f.targets.tracks.slice().sort());
+  });
+
+  it('keeps the baseline and the latest visits, and names what it leaves out', () => {
+    const s = buildBoardSummary(syntheticPatient({ visits: 11, lesions: 16 }), { madeAt });
+    expect(s.visits.map((v) => v.id)).toEqual(['v1', 'v7', 'v8', 'v9', 'v10', 'v11'].slice(0, MAX_VISIT_ROWS));
+    expect(s.visitsLeftOut).toEqual(['v2', 'v3', 'v4', 'v5', 'v6']);
+    expect(s.lesionTable.visits).toHaveLength(MAX_TABLE_VISITS);
+    expect(s.lesionTable.rows).toHaveLength(MAX_TRACK_ROWS);
+    expect(s.lesionTable.rows.length + s.lesionTable.tracksLeftOut.length).toBe(16);
+    // Targets come first.
+    expect(s.lesionTable.rows.slice(0, 2).every((r) => r.target)).toBe(true);
+  });
+
+  it('lists margin alerts with their distance, the latest visit first', () => {
+    const s = buildBoardSummary(syntheticPatient({ visits: 3, lesions: 7 }), { madeAt });
+    expect(s.alerts.length).toBeGreaterThan(0);
+    expect(s.alerts[0].latest).toBe(true);
+    expect(s.alerts[0].visit).toBe('v3');
+    for (const a of s.alerts) expect([0, 4.5]).toContain(a.marginMm);
+  });
+});
+
+describe('size chart', () => {
+  it('places visits by their real dates (time to scale)', () => {
+    const input = syntheticPatient({ visits: 4, lesions: 2 });
+    // Uneven intervals: 10, 40 and 100 days after baseline.
+    const dates = ['2026-01-01', '2026-01-11', '2026-02-10', '2026-04-11'];
+    input.followup.visits.forEach((v, k) => (v.date = dates[k]));
+    const svg = sizeChartSvg(buildBoardSummary(input, { madeAt }).chart);
+    const line = /<polyline points="([^"]+)"/.exec(svg)![1];
+    const xs = line.split(' ').map((p) => Number(p.split(',')[0]));
+    const gap = (k: number) => xs[k] - xs[0];
+    expect(gap(2) / gap(1)).toBeCloseTo(40 / 10, 1);
+    expect(gap(3) / gap(1)).toBeCloseTo(100 / 10, 1);
+    // Axes say what they measure, in which unit.
+    expect(svg).toContain('Longest axial diameter (mm)');
+    expect(svg).toContain('Visit date (YYYY-MM-DD)');
+    // A date label too close to the one before is left out; the first and last always show.
+    expect(svg).toContain(`>${dates[0]}<`);
+    expect(svg).toContain(`>${dates[3]}<`);
+  });
+
+  it('colours each track by its segment from the Okabe-Ito palette', () => {
+    const s = buildBoardSummary(syntheticPatient({ visits: 2, lesions: 3 }), { madeAt });
+    const svg = sizeChartSvg(s.chart);
+    for (const series of s.chart.series) expect(svg).toContain(`stroke="${SEGMENT_COLOURS[series.segment!]}"`);
+    expect(Object.values(SEGMENT_COLOURS).every((c) => (Object.values(OKABE_ITO) as string[]).includes(c))).toBe(true);
+  });
+});
+
+describe('segment diagram', () => {
+  it('draws one dot and label per lesion of the latest visit, and IV split when the map splits it', () => {
+    const s = buildBoardSummary(syntheticPatient({ visits: 3, lesions: 6 }), { madeAt });
+    const svg = segmentDiagramSvg(s.diagram);
+    const labels = [...svg.matchAll(/class="dot-label"[^>]*>([^<]+)</g)].map((m) => m[1]);
+    expect(labels.sort()).toEqual(s.diagram.lesions.map((l) => l.label).sort());
+    expect(s.diagram.splitIV).toBe(true);
+    for (const seg of ['I', 'II', 'III', 'IVa', 'IVb', 'V', 'VI', 'VII', 'VIII']) expect(svg).toContain(`>${seg}</text>`);
+    const unsplit = segmentDiagramSvg({ ...s.diagram, splitIV: false, segments: ['I', 'II', 'III', 'IV', 'V', 'VI', 'VII', 'VIII'] });
+    expect(unsplit).toContain('>IV</text>');
+    expect(unsplit).not.toContain('>IVa</text>');
+  });
+});

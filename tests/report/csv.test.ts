@@ -1,0 +1,100 @@
+import { parse } from 'csv-parse/sync';
+import { describe, expect, it } from 'vitest';
+import { CASE_FORM_COLUMNS, caseFormCsv, caseFormRows, decimal, fractionsText } from '../../src/report/case-form.js';
+import { csvField, toCsv } from '../../src/report/csv.js';
+import { CAUTION } from '../../src/caution.js';
+import { syntheticPatient } from './fixtures.js';
+
+// The case-form CSV read back with csv-parse, a general RFC 4180 parser (RFC 4180: Shafranovich,
+// Common Format and MIME Type for Comma-Separated Values (CSV) Files, 2005), gives back exactly the
+// rows it was written from.
+const readBack = (text: string) => parse(text, { columns: true, bom: false, relax_column_count: false }) as Record<string, string>[];
+
+describe('RFC 4180 writer', () => {
+  it('quotes what must be quoted and doubles quotes (RFC 4180 §2, rules 5–7)', () => {
+    expect(csvField('plain')).toBe('plain');
+    expect(csvField('a,b')).toBe('"a,b"');
+    expect(csvField('say "hi"')).toBe('"say ""hi"""');
+    expect(csvField('two\r\nlines')).toBe('"two\r\nlines"');
+    expect(csvField('lf\nonly')).toBe('"lf\nonly"');
+    expect(csvField(' padded')).toBe('" padded"');
+    expect(csvField('')).toBe('');
+  });
+
+  it('ends every record, the last too, in CRLF (RFC 4180 §2, rules 1–2)', () => {
+    const text = toCsv(['a', 'b'], [{ a: '1', b: '2' }, { a: '3', b: '4' }]);
+    expect(text).toBe('a,b\r\n1,2\r\n3,4\r\n');
+  });
+
+  it('hard values survive a round trip through csv-parse', () => {
+    const columns = ['id', 'text', 'unicode'] as const;
+    const rows = [
+      { id: '1', text: 'comma, inside', unicode: 'Ségment IVb — µ 中 🙂' },
+      { id: '2', text: '"quoted" and ""double""', unicode: '' },
+      { id: '3', text: 'line\r\nbreak\nand\rCR', unicode: ' leading and trailing ' },
+      { id: '4', text: '', unicode: '=1+1' },
+    ];
+    const text = toCsv(columns, rows);
+    expect(readBack(text)).toEqual(rows);
+    // UTF-8 without a byte-order mark.
+    const bytes = new TextEncoder().encode(text);
+    expect([...bytes.subarray(0, 3)]).not.toEqual([0xef, 0xbb, 0xbf]);
+    expect(new TextDecoder('utf-8', { fatal: true }).decode(bytes)).toBe(text);
+  });
+});
+
+describe('case-form export', () => {
+  const input = syntheticPatient({ visits: 4, lesions: 7 });
+  const rows = caseFormRows(input, 'SYN-0001');
+  const text = caseFormCsv(rows);
+
+  it('csv-parse reads back exactly the rows, columns in the documented order', () => {
+    const back = readBack(text);
+    expect(back).toEqual(rows);
+    expect(Object.keys(back[0])).toEqual([...CASE_FORM_COLUMNS]);
+    expect(text.split('\r\n')[0]).toBe(CASE_FORM_COLUMNS.join(','));
+  });
+
+  it('has one row per lesion per visit, and one per absent track', () => {
+    const lesions = input.visits.reduce((n, v) => n + v.analysis.lesions.length, 0);
+    const absent = input.followup.tracks.reduce((n, t) => n + Object.values(t.status).filter((s) => s !== 'present').length, 0);
+    expect(rows.filter((r) => r.status === 'present')).toHaveLength(lesions);
+    expect(rows.filter((r) => r.status !== 'present')).toHaveLength(absent);
+    expect(absent).toBeGreaterThan(0);
+  });
+
+  it('carries the analysis values, rounded as analyze --json rounds them', () => {
+    for (const v of input.visits) {
+      const f = input.followup.visits.find((x) => x.id === v.id)!;
+      for (const l of v.analysis.lesions) {
+        const r = rows.find((x) => x.visit === v.id && x.lesion === l.id)!;
+        const track = input.followup.tracks.find((t) => t.lesions[v.id] === l.id)!;
+        expect(r).toMatchObject({
+          patient: 'SYN-0001', date: v.date, track: track.id, segment: l.segment ?? 'outside',
+          longest_axial_mm: decimal(l.longestAxialMm, 2), short_axis_mm: decimal(l.shortAxisMm, 2),
+          volume_ml: decimal(l.volumeMl, 3), margin_mm: decimal(l.marginMm, 2), nearest_other_segment: l.nearestOtherSegment ?? '',
+          margin_alert: l.marginMm !== null && l.marginMm < 10 ? 'yes' : 'no', target: track.target ? 'yes' : 'no',
+          response: v.id === 'v1' ? '' : f.overall, criteria: 'RECIST 1.1', caution: CAUTION,
+        });
+      }
+    }
+  });
+
+  it('writes fractions in anatomical order, gone tracks as 0 mm, and new lesions once', () => {
+    expect(fractionsText({ VIII: 0.4, V: 0.6 })).toBe('V:0.6;VIII:0.4');
+    expect(fractionsText({ IVb: 0.33333, II: 0.66667 })).toBe('II:0.6667;IVb:0.3333');
+    const gone = rows.filter((r) => r.status === 'gone');
+    expect(gone.every((r) => r.lesion === '' && r.longest_axial_mm === '0')).toBe(true);
+    const fresh = rows.filter((r) => r.new_lesion === 'yes');
+    expect(fresh.map((r) => r.visit)).toEqual(['v3']);
+    expect(rows.filter((r) => r.visit === 'v1').every((r) => r.days_from_baseline === '0' && r.change_from_baseline_pct === '')).toBe(true);
+  });
+
+  it('decimal gives the shortest form of the rounded value and empty for missing', () => {
+    expect(decimal(24.6749, 2)).toBe('24.67');
+    expect(decimal(14, 2)).toBe('14');
+    expect(decimal(-0.001, 2)).toBe('0');
+    expect(decimal(null, 2)).toBe('');
+    expect(decimal(Number.NaN, 2)).toBe('');
+  });
+});
