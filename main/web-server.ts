@@ -41,7 +41,9 @@ export async function startWebServer(root: string, port = 0): Promise<WebServer>
       'x-content-type-options': 'nosniff',
       'referrer-policy': 'no-referrer',
       'cross-origin-opener-policy': 'same-origin',
-      'cache-control': 'no-cache',
+      // Built assets carry a content hash in their names: cache them for good, so workers started
+      // later (a patient opened with the network cut) load from the cache. Everything else revalidates.
+      'cache-control': /\/assets\/[^/]+-[A-Za-z0-9_-]{8}\.\w+$/.test(path) ? 'public, max-age=31536000, immutable' : 'no-cache',
     });
     if (req.method === 'HEAD') res.end();
     else createReadStream(path).pipe(res);

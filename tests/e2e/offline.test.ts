@@ -133,6 +133,12 @@ describe('no network: the served app', () => {
     const context = await browser.newContext();
     const r = await record(context);
     await r.page.goto(url, { waitUntil: 'networkidle' });
+    // Use the app once online (a patient, a visit) so every script it has, workers included, is loaded.
+    await r.page.getByTestId('open-patient').first().click({ timeout: 60_000 });
+    await r.page.getByTestId('visit-table').waitFor({ timeout: 60_000 });
+    await r.page.locator('[data-testid=visit-row] a').first().click();
+    await r.page.getByTestId('lesion-table').waitFor({ timeout: 60_000 });
+    await r.page.goto(`${url}#/`, { waitUntil: 'networkidle' });
     const before = r.requests.length;
     await context.setOffline(true);
     expect(await r.page.evaluate(() => navigator.onLine)).toBe(false);

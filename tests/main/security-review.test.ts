@@ -366,6 +366,10 @@ const DEPENDENCY_TEXT = [
   // Dexie: links in the text of two of its error messages.
   /^https:\/\/tinyurl\.com\/y2uuvskb$/,
   /^http:\/\/bit\.ly\/2kdckMn$/,
+  // Recharts keeps its state in Redux Toolkit: links in the text of their error messages.
+  /^https:\/\/redux\.js\.org\/Errors\?code=\$\{e\}$/,
+  /^https:\/\/redux-toolkit\.js\.org\/Errors\?code=\$\{e\}$/,
+  /^https:\/\/bit\.ly\/3cXEKWf$/,
 ];
 const REMOTE_URL = /\b(?:https?|wss?|ftp):\/\/[^\s'"`)<>\\]*/g;
 
