@@ -8,6 +8,7 @@ import { createRequire } from 'node:module';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
 import { startWebServer } from '../build/main/web-server.js';
+import { findBrowser } from '../build/src/cli/print-pdf.js';
 
 const require = createRequire(import.meta.url);
 
@@ -27,19 +28,6 @@ function dataFolder() {
   return join(process.env.XDG_DATA_HOME ?? join(homedir(), '.local', 'share'), 'falciform');
 }
 
-function findBrowser() {
-  const wanted = process.env.FALCIFORM_BROWSER;
-  if (wanted === 'none') return null;
-  const candidates = wanted ? [wanted] : [
-    '/usr/bin/chromium', '/usr/bin/chromium-browser', '/usr/bin/google-chrome', '/usr/bin/google-chrome-stable',
-    '/snap/bin/chromium',
-    '/Applications/Chromium.app/Contents/MacOS/Chromium',
-    '/Applications/Google Chrome.app/Contents/MacOS/Google Chrome',
-    join(process.env['PROGRAMFILES'] ?? 'C:\\Program Files', 'Google', 'Chrome', 'Application', 'chrome.exe'),
-    join(process.env['PROGRAMFILES(X86)'] ?? 'C:\\Program Files (x86)', 'Google', 'Chrome', 'Application', 'chrome.exe'),
-  ];
-  return candidates.find((p) => existsSync(p)) ?? null;
-}
 
 function runElectron(binary) {
   const child = spawn(binary, ['.'], { stdio: 'inherit' });

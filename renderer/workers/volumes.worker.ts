@@ -15,7 +15,7 @@ import type { SegmentMap } from '../../src/segments/segment-map';
 import type { Volume } from '../../src/volume/volume';
 import { storedPatient } from '../analysis/store-source';
 import { appDb } from '../store/db';
-import { resampleNearest } from '../viewer/resample-nearest';
+import { resampleNearest } from '../../src/volume/resample';
 import type { VisitVolumes, VolumesMessage, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
 

@@ -141,7 +141,11 @@ export async function loadVolume(path: string, opts: { maxBytes?: number } = {})
  */
 export async function saveVolume(path: string, volume: Volume, datatype: WriteDatatype): Promise<void> {
   const raw = encodeNifti(volume, datatype);
-  const bytes = /\.nii$/i.test(path) ? raw : gzipSync(raw);
+  await writeFileAtomic(path, /\.nii$/i.test(path) ? raw : gzipSync(raw));
+}
+
+/** Writes beside the final name and renames, so a failure never leaves a half-written file. */
+export async function writeFileAtomic(path: string, bytes: Uint8Array): Promise<void> {
   const tmp = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
   try {
     await writeFile(tmp, bytes);

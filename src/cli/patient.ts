@@ -1,5 +1,5 @@
 import { parseManifest, resolveManifestPath } from '../manifest/manifest.js';
-import { loadPatientFrom, type LoadedPatient, type LoadOptions } from '../patient/load.js';
+import { loadPatientFrom, type LoadedPatient, type LoadOptions, type PatientFiles } from '../patient/load.js';
 import { loadVolume, readTextFile } from './node-io.js';
 
 export { followupOfPatient, type LoadedPatient, type LoadedVisit } from '../patient/load.js';
@@ -7,10 +7,11 @@ export { followupOfPatient, type LoadedPatient, type LoadedVisit } from '../pati
 /** Reads a study manifest and every file it names from disk, relative to the manifest. */
 export async function loadPatient(manifestPath: string, opts: LoadOptions = {}): Promise<LoadedPatient> {
   const manifest = parseManifest(await readTextFile(manifestPath), manifestPath);
+  return loadPatientFrom(manifest, manifestPath, diskFiles(manifestPath), opts);
+}
+
+/** A manifest's files on disk, relative to the manifest. */
+export function diskFiles(manifestPath: string): PatientFiles {
   const resolve = (rel: string) => resolveManifestPath(manifestPath, rel);
-  return loadPatientFrom(manifest, manifestPath, {
-    name: resolve,
-    volume: (rel) => loadVolume(resolve(rel)),
-    text: (rel) => readTextFile(resolve(rel)),
-  }, opts);
+  return { name: resolve, volume: (rel) => loadVolume(resolve(rel)), text: (rel) => readTextFile(resolve(rel)) };
 }

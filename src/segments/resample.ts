@@ -1,4 +1,4 @@
-import { multiply } from '../geometry/mat4.js';
+import { resampleNearest } from '../volume/resample.js';
 import type { Volume } from '../volume/volume.js';
 import { SEGMENT_CODES } from './scheme.js';
 import type { SegmentMap } from './segment-map.js';
@@ -11,37 +11,20 @@ import type { SegmentMap } from './segment-map.js';
  */
 export function resampleLabels(map: SegmentMap, target: Volume): Uint8Array {
   const src = map.labels;
-  const [sx, sy, sz] = src.dims;
-  const [nx, ny, nz] = target.dims;
-  const data = src.data;
-  const slope = src.slope;
-  const inter = src.inter;
+  const raw = resampleNearest(src.data, src, target);
   const codeOf = new Map<number, number>();
   for (const [value, name] of map.scheme) codeOf.set(value, SEGMENT_CODES[name]);
-  // Target index → source index in one affine, so each voxel costs three multiply-adds.
-  const T = multiply(src.inverse, target.affine);
-  const ai = T[0], bi = T[4], ci = T[8];
-  const out = new Uint8Array(nx * ny * nz);
+  const out = new Uint8Array(raw.length);
   // Label maps come in long runs of one value: remember the last lookup.
   let lastRaw = Number.NaN;
   let lastCode = 0;
-  for (let k = 0; k < nz; k++) {
-    for (let j = 0; j < ny; j++) {
-      const a = T[1] * j + T[2] * k + T[3];
-      const b = T[5] * j + T[6] * k + T[7];
-      const c = T[9] * j + T[10] * k + T[11];
-      const row = nx * (j + ny * k);
-      for (let i = 0; i < nx; i++) {
-        const si = Math.round(a + ai * i), sj = Math.round(b + bi * i), sk = Math.round(c + ci * i);
-        if (si < 0 || sj < 0 || sk < 0 || si >= sx || sj >= sy || sk >= sz) continue;
-        const raw = data[si + sx * (sj + sy * sk)];
-        if (raw !== lastRaw) {
-          lastRaw = raw;
-          lastCode = codeOf.get(raw * slope + inter) ?? 0;
-        }
-        out[row + i] = lastCode;
-      }
+  for (let n = 0; n < raw.length; n++) {
+    const r = raw[n];
+    if (r !== lastRaw) {
+      lastRaw = r;
+      lastCode = codeOf.get(r * src.slope + src.inter) ?? 0;
     }
+    out[n] = lastCode;
   }
   return out;
 }

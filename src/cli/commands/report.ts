@@ -1,11 +1,11 @@
 import { randomBytes } from 'node:crypto';
-import { mkdir, rename, unlink, writeFile } from 'node:fs/promises';
-import { basename, dirname, join } from 'node:path';
+import { mkdir, rename, unlink } from 'node:fs/promises';
+import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { CAUTION } from '../../caution.js';
 import { badFile } from '../../errors.js';
-import { parseManifest, resolveManifestPath } from '../../manifest/manifest.js';
-import type { LoadedVisit, PatientFiles } from '../../patient/load.js';
+import { parseManifest } from '../../manifest/manifest.js';
+import type { LoadedVisit } from '../../patient/load.js';
 import { remnantForPatient } from '../../remnant/for-patient.js';
 import { resectionPreset, RESECTION_PRESETS } from '../../remnant/resections.js';
 import { buildBoardSummary } from '../../report/board-summary.js';
@@ -20,8 +20,8 @@ import { segmentMapFileName, segmentMapNifti } from '../../report/segment-map-ex
 import { loadVisitWithMap } from '../../report/visit-maps.js';
 import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
-import { loadVolume, readTextFile } from '../node-io.js';
-import { followupOfPatient } from '../patient.js';
+import { readTextFile, writeFileAtomic } from '../node-io.js';
+import { diskFiles, followupOfPatient } from '../patient.js';
 import { findBrowser, printToPdf } from '../print-pdf.js';
 
 const USAGE =
@@ -43,8 +43,7 @@ export const report: Command = {
     }
 
     const manifest = parseManifest(await readTextFile(manifestFile), manifestFile);
-    const resolvePath = (rel: string) => resolveManifestPath(manifestFile, rel);
-    const source: PatientFiles = { name: resolvePath, volume: (rel) => loadVolume(resolvePath(rel)), text: (rel) => readTextFile(resolvePath(rel)) };
+    const source = diskFiles(manifestFile);
     try {
       await mkdir(outDir, { recursive: true });
     } catch (e) {
@@ -55,7 +54,7 @@ export const report: Command = {
     const notes: string[] = [];
     const put = async (name: string, bytes: Uint8Array) => {
       const path = join(outDir, name);
-      await writeAtomic(path, bytes);
+      await writeFileAtomic(path, bytes);
       written.push(path);
     };
 
@@ -123,14 +122,3 @@ function pageOption(v: string | undefined): PageSize {
   return found;
 }
 
-/** Written beside the final name and renamed, so a failure never leaves a half-written output. */
-async function writeAtomic(path: string, bytes: Uint8Array): Promise<void> {
-  const tmp = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
-  try {
-    await writeFile(tmp, bytes);
-    await rename(tmp, path);
-  } catch (e) {
-    await unlink(tmp).catch(() => undefined);
-    throw badFile(path, `cannot be written: ${e instanceof Error ? e.message : String(e)}`);
-  }
-}
