@@ -7,7 +7,8 @@ import { LooseFilesDialog } from '../components/LooseFilesDialog';
 import { desktopBridge, filesFromInput, saveBytes } from '../platform/bridge';
 import { BACKUP_EXTENSION, backupFileName, createBackup, readBackup, restoreBackup, restoreConflicts, type BackupContents, type BackupScope } from '../store/backup';
 import { appDb, askPersistentStorage } from '../store/db';
-import { commitImport, findManifests, readImport, type LooseVisitDetails } from '../store/import';
+import { commitImport, findManifests, type LooseVisitDetails } from '../store/import';
+import { readImportInWorker } from '../store/import-client';
 import { deletePatient, listPatients, type PatientSummary } from '../store/patients';
 import { offerDemoPatients, removeDemoPatients } from '../store/demo';
 import { go } from '../navigation';
@@ -70,7 +71,7 @@ export function PatientList() {
       return;
     }
     void run('Import', async () => {
-      const plan = await readImport(files, {
+      const plan = await readImportInWorker(files, {
         loose: details,
         onProgress: (done, total, file) => setBusy(done < total ? `Checking file ${done + 1} of ${total}: ${file}` : 'Saving…'),
       });

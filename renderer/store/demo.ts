@@ -1,7 +1,8 @@
 import type { OpenedFile } from '../../main/bridge-api';
 import { parseManifest } from '../../src/manifest/manifest';
 import type { FalciformDb } from './db';
-import { commitImport, readImport } from './import';
+import { commitImport } from './import';
+import { readImportInWorker } from './import-client';
 import { deletePatient, getSetting, setSetting } from './patients';
 
 /** The manifest fields that name files. */
@@ -38,7 +39,7 @@ export async function offerDemoPatients(db: FalciformDb, base = './demo/'): Prom
       files.push({ relativePath: folder + path, bytes: new Uint8Array(await res.arrayBuffer()) });
     }
   }
-  const result = await commitImport(db, await readImport(files));
+  const result = await commitImport(db, await readImportInWorker(files));
   await setSetting(db, 'demoOffered', true);
   return result.patients.map((p) => p.id);
 }
