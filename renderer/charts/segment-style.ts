@@ -1,18 +1,16 @@
 import type { SegmentName } from '../../src/segments/segment-map.js';
-import { SEGMENT_COLOURS } from '../viewer/palette.js';
+import { segmentColour as paletteColour } from '../../src/report/palette.js';
 
 /**
- * How a segment is drawn in charts and the diagram: the app's one segment colour (see the palette),
+ * How a segment is drawn in the charts: the core palette's one segment colour (grey outside every segment),
  * a dash for IVb (it shares IV's colour), and a dark outline for colours too light to see as thin
  * lines or small dots on white (Okabe-Ito yellow).
  */
 
-/** Lesions outside every segment: neutral grey, as in the board summary. */
-export const OUTSIDE_COLOUR = '#7f7f7f';
 export const OUTLINE_INK = '#3b4348';
 
 export function segmentColour(segment: SegmentName | null | undefined): string {
-  return segment ? SEGMENT_COLOURS[segment] : OUTSIDE_COLOUR;
+  return paletteColour(segment ?? null);
 }
 
 /** SVG stroke-dasharray for the segment's lines, where its colour alone does not tell it apart. */

@@ -1,7 +1,7 @@
 import type { BoardRemnant, BoardSummary, BoardTrackCell, BoardVisitRow } from './board-summary.js';
 import { boardCss, type PageSize } from './board-style.js';
 import { esc } from './html-escape.js';
-import { diagramKeySvg, diagramScale, segmentDiagramSvg } from './segment-diagram-svg.js';
+import { segmentDiagramSvg } from './segment-diagram-svg.js';
 import { sizeChartSvg } from './size-chart-svg.js';
 
 /**
@@ -29,7 +29,7 @@ export function boardSheetHtml(s: BoardSummary): string {
   );
   h.push(
     `<section class="b-col-diagram"><h2>Segments at ${esc(s.diagram.visit)} <span class="b-h2-note">${esc(s.diagram.date)}, seen from the front</span></h2>` +
-      `${segmentDiagramSvg(s.diagram)}${diagramKeySvg(diagramScale(s.diagram))}</section>`,
+      `${segmentDiagramSvg(s.diagram)}</section>`,
   );
   h.push(`</div>`);
   h.push(visitsTable(s));

@@ -62,7 +62,8 @@ export const BOARD_CSS = `
 .board-sheet h2 .b-h2-note { font-weight: normal; color: var(--b-muted); }
 .board-sheet section { break-inside: avoid; margin-bottom: 1.8mm; }
 .board-sheet .b-row { display: flex; gap: 3mm; align-items: flex-start; }
-.board-sheet .b-col-chart { flex: 1.5 1 0; min-width: 0; }
+/* The chart (470 × 244) and the segment diagram (640 × 440) come out equally tall at these widths. */
+.board-sheet .b-col-chart { flex: 1.32 1 0; min-width: 0; }
 .board-sheet .b-col-diagram { flex: 1 1 0; min-width: 0; }
 .board-sheet .b-col-half { flex: 1 1 0; min-width: 0; }
 .board-sheet svg { display: block; width: 100%; height: auto; }
@@ -71,9 +72,6 @@ export const BOARD_CSS = `
 .board-sheet svg .axis-title { font-size: 10px; fill: var(--b-muted); }
 .board-sheet svg .legend { font-size: 10px; }
 .board-sheet svg .note-text { font-size: 9px; fill: var(--b-muted); }
-.board-sheet svg .segment-label { font-size: 12px; font-weight: bold; }
-.board-sheet svg .segment-label.absent { fill: #9aa3a8; }
-.board-sheet svg .dot-label { font-size: 10px; font-weight: bold; }
 .board-sheet table { width: 100%; border-collapse: collapse; font-variant-numeric: tabular-nums; }
 .board-sheet th, .board-sheet td { text-align: left; padding: 0.25mm 1mm; border-bottom: 0.2mm solid var(--b-line); vertical-align: top; }
 .board-sheet thead th { font-weight: normal; color: var(--b-muted); background: var(--b-soft); }

@@ -5,6 +5,7 @@ import type { TrackStatus } from '../followup/tracks.js';
 import type { PatientRemnant } from '../remnant/for-patient.js';
 import type { SegmentName } from '../segments/segment-map.js';
 import { VERSION } from '../version.js';
+import { placeLesions, type PlacedLesion } from './diagram-placement.js';
 import { daysBetween, lesionsOfTrack, type ReportInput, type ReportVisit } from './input.js';
 import { pseudonymNote, scrubId, type Pseudonym } from './pseudonym.js';
 
@@ -98,22 +99,13 @@ export interface SizeChart {
   treatments: { date: string; label: string }[];
 }
 
-export interface DiagramLesion {
-  /** Track id, else the lesion id. */
-  label: string;
-  segment: SegmentName | null;
-  longestAxialMm: number;
-  alert: boolean;
-  target: boolean;
-}
-
 export interface SegmentDiagram {
   visit: string;
   date: string;
-  splitIV: boolean;
-  /** Segments the visit's map holds. */
+  /** Segments the visit's map holds: IV whole or split as the map has it. */
   segments: SegmentName[];
-  lesions: DiagramLesion[];
+  /** Placed as the app's Diagram tab places them, so the page and the screen agree. */
+  lesions: PlacedLesion[];
 }
 
 export interface BoardRemnant {
@@ -283,25 +275,11 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
     treatments: (manifest.treatments ?? []).map((x) => ({ date: x.date, label: x.label })),
   };
 
-  const latestAnalysis = byId.get(latestVisit.id)?.analysis;
-  const trackOfLesion = new Map<string, { id: string; target: boolean }>();
-  for (const t of f.tracks) for (const id of lesionsOfTrack(t, latestVisit.id)) trackOfLesion.set(id, t);
-  const latestAlerts = new Set(latestVisit.marginAlerts);
   const diagram: SegmentDiagram = {
     visit: latestVisit.id,
     date: latestVisit.date,
-    splitIV: (latestAnalysis?.segments ?? []).some((s) => s.segment === 'IVa' || s.segment === 'IVb'),
-    segments: (latestAnalysis?.segments ?? []).map((s) => s.segment),
-    lesions: (latestAnalysis?.lesions ?? []).map((l) => {
-      const t = trackOfLesion.get(l.id);
-      return {
-        label: t ? t.id : l.id,
-        segment: l.segment,
-        longestAxialMm: l.longestAxialMm,
-        alert: t ? latestAlerts.has(t.id) : l.marginAlert,
-        target: t?.target ?? false,
-      };
-    }),
+    segments: (byId.get(latestVisit.id)?.analysis.segments ?? []).map((s) => s.segment),
+    lesions: placeLesions(f, input.visits.map((v) => ({ id: v.id, lesions: v.analysis.lesions })), latestVisit.id),
   };
 
   const warnings = [

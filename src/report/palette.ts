@@ -36,3 +36,10 @@ export const OUTSIDE_COLOUR = '#7f7f7f';
 export function segmentColour(s: SegmentName | null): string {
   return s === null ? OUTSIDE_COLOUR : SEGMENT_COLOURS[s];
 }
+
+/** Lines and text of the drawings. */
+export const INK = '#1d2327';
+/** The margin-alert ring: dark enough to read in black and white, apart from every segment colour. */
+export const ALERT_INK = '#8a3b00';
+/** Paper: halos behind labels, open dots. */
+export const PAPER = '#ffffff';

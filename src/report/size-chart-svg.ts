@@ -1,6 +1,6 @@
 import type { SizeChart } from './board-summary.js';
 import { esc, n2 } from './html-escape.js';
-import { segmentColour } from './palette.js';
+import { INK, segmentColour } from './palette.js';
 
 /**
  * The size chart as inline SVG: longest axial diameter of each lesion track over the real visit
@@ -15,7 +15,6 @@ const W = 470;
 const H = 244;
 const PLOT = { left: 46, right: W - 112, top: 18, bottom: H - 36 };
 const DAY_MS = 86_400_000;
-const INK = '#1d2327';
 
 const time = (iso: string) => Date.parse(`${iso}T00:00:00Z`);
 

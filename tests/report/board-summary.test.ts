@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { buildBoardSummary, MAX_TABLE_VISITS, MAX_TRACK_ROWS, MAX_VISIT_ROWS } from '../../src/report/board-summary.js';
+import { placeLesions } from '../../src/report/diagram-placement.js';
 import { segmentDiagramSvg } from '../../src/report/segment-diagram-svg.js';
 import { sizeChartSvg } from '../../src/report/size-chart-svg.js';
 import { OKABE_ITO, SEGMENT_COLOURS } from '../../src/report/palette.js';
@@ -70,15 +71,26 @@ describe('size chart', () => {
 });
 
 describe('segment diagram', () => {
-  it('draws one dot and label per lesion of the latest visit, and IV split when the map splits it', () => {
-    const s = buildBoardSummary(syntheticPatient({ visits: 3, lesions: 6 }), { madeAt });
+  it('draws one dot and name per lesion of the latest visit, placed as the app places them, and IV split when the map splits it', () => {
+    const input = syntheticPatient({ visits: 3, lesions: 6 });
+    const s = buildBoardSummary(input, { madeAt });
     const svg = segmentDiagramSvg(s.diagram);
-    const labels = [...svg.matchAll(/class="dot-label"[^>]*>([^<]+)</g)].map((m) => m[1]);
-    expect(labels.sort()).toEqual(s.diagram.lesions.map((l) => l.label).sort());
-    expect(s.diagram.splitIV).toBe(true);
+    const names = [...svg.matchAll(/class="diagram-lesion-name"[^>]*>([^<]+)</g)].map((m) => m[1]);
+    expect(names.sort()).toEqual(s.diagram.lesions.map((l) => (l.track ?? l.lesion) + (l.isNew ? ' new' : '')).sort());
+    expect(s.diagram.lesions).toEqual(placeLesions(input.followup, input.visits.map((v) => ({ id: v.id, lesions: v.analysis.lesions })), 'v3'));
     for (const seg of ['I', 'II', 'III', 'IVa', 'IVb', 'V', 'VI', 'VII', 'VIII']) expect(svg).toContain(`>${seg}</text>`);
-    const unsplit = segmentDiagramSvg({ ...s.diagram, splitIV: false, segments: ['I', 'II', 'III', 'IV', 'V', 'VI', 'VII', 'VIII'] });
+    expect(svg).not.toContain('>IV</text>');
+    const unsplit = segmentDiagramSvg({ ...s.diagram, segments: ['I', 'II', 'III', 'IV', 'V', 'VI', 'VII', 'VIII'] });
     expect(unsplit).toContain('>IV</text>');
     expect(unsplit).not.toContain('>IVa</text>');
+    // Presentation attributes only: the app injects the page under a CSP without inline styles.
+    expect(svg).not.toMatch(/style=/);
+    // Each lesion's ring (margin alert) and fill (target) as the follow-up has them.
+    for (const l of s.diagram.lesions) {
+      const g = new RegExp(`<g data-lesion="${l.lesion}"[^>]*data-alert="${l.alert}" data-target="${l.target}">`);
+      expect(svg).toMatch(g);
+    }
+    expect(s.diagram.lesions.some((l) => l.alert)).toBe(true);
+    expect(s.diagram.lesions.some((l) => l.target)).toBe(true);
   });
 });

@@ -8,10 +8,10 @@ import { syntheticPatient } from './fixtures.js';
 // markup. The five characters are those the HTML standard gives meaning to in text and attributes.
 const HOSTILE = `<img src=x onerror="alert(1)">'&"</p><script>alert(2)</script>`;
 
-/** Tags the page may hold: its own layout and the SVG charts, nothing that runs or loads. */
+/** Tags the page may hold: its own layout and the SVG charts (with groups and their tooltips), nothing that runs or loads. */
 const ALLOWED = new Set([
   'article', 'header', 'footer', 'section', 'div', 'p', 'h1', 'h2', 'span', 'b', 'br', 'ul', 'li',
-  'table', 'thead', 'tbody', 'tr', 'th', 'td', 'svg', 'line', 'polyline', 'path', 'circle', 'rect', 'ellipse', 'text',
+  'table', 'thead', 'tbody', 'tr', 'th', 'td', 'svg', 'g', 'title', 'line', 'polyline', 'path', 'circle', 'rect', 'ellipse', 'text',
 ]);
 
 describe('HTML escaping', () => {

@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { usePatient } from '../../analysis/PatientContext';
 import { oneDecimal } from '../../charts/chart-parts';
 import { SegmentDiagram } from '../../diagram/SegmentDiagram';
-import { placeLesions } from '../../diagram/placement';
+import { placeLesions } from '../../../src/report/diagram-placement';
 
 /** The segment diagram for one visit at a time, with that visit's lesions listed beside it. */
 export function DiagramTab() {
@@ -37,8 +37,8 @@ export function DiagramTab() {
             caption={`Segment diagram, visit ${visit.id} (${visit.date}): ${lesions.length} lesion(s)`}
           />
           <p className="chart-note">
-            Schematic front view, the patient&apos;s right on the left; not to scale. Each lesion sits in the segment holding its centroid,
-            at the same place at every visit. {segments.includes('I') ? '' : 'Segment I is not in this visit\'s segment map. '}
+            Schematic front view, the patient&apos;s right on the left, as on the board summary; the outline is not to scale, the dots are.
+            Each lesion sits in the segment holding its centroid, at the same place at every visit. {segments.includes('I') ? '' : 'Segment I is not in this visit\'s segment map. '}
             Segments drawn unfilled are absent from the map.
           </p>
         </div>
