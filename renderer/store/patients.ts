@@ -1,6 +1,6 @@
 import { badInput } from '../../src/errors.js';
 import {
-  DEFAULT_SETTINGS, type AuditAction, type AuditEntity, type AuditRecord, type JsonValue, type PatientRecord,
+  DEFAULT_SETTINGS, type AuditRecord, type JsonValue, type PatientRecord,
 } from '../../src/model/records.js';
 import type { FalciformDb } from './db.js';
 import { trailId } from './record-helpers.js';
@@ -91,15 +91,8 @@ export async function updatePatient(db: FalciformDb, id: string, changes: Patien
   });
 }
 
-export interface Edit {
-  patientId?: string;
-  entity: AuditEntity;
-  entityId: string;
-  field: string;
-  oldValue: JsonValue;
-  newValue: JsonValue;
-  action: AuditAction;
-}
+/** One edit as the caller describes it; the trail adds when it happened and an id. */
+export type Edit = Omit<AuditRecord, 'id' | 'at'>;
 
 /** Adds one trail entry. Call it inside the transaction that makes the change, so both or neither land. */
 export async function recordEdit(db: FalciformDb, edit: Edit): Promise<AuditRecord> {

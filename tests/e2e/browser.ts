@@ -1,3 +1,4 @@
+import { spawn, type ChildProcess } from 'node:child_process';
 import { chromium, type Browser, type Page } from 'playwright-core';
 
 /** Debian's Chromium, headless, never a downloaded browser. */
@@ -16,4 +17,25 @@ export function watchErrors(page: Page): string[] {
   page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
   page.on('pageerror', (e) => errors.push(e.message));
   return errors;
+}
+
+/**
+ * `npm start` in browser mode (after the build), serving only: the process and the address it prints.
+ * `dataDir` is the app's own data folder (its browser profile and port file).
+ */
+export async function startServedApp(dataDir: string): Promise<{ app: ChildProcess; url: string }> {
+  const app = spawn(process.execPath, ['scripts/start.mjs'], {
+    env: { ...process.env, FALCIFORM_BROWSER: 'none', FALCIFORM_DATA_DIR: dataDir },
+    stdio: ['ignore', 'pipe', 'inherit'],
+  });
+  const url = await new Promise<string>((resolve, reject) => {
+    let out = '';
+    app.stdout!.on('data', (chunk) => {
+      out += chunk;
+      const m = out.match(/served at (http:\/\/127\.0\.0\.1:\d+\/)/);
+      if (m) resolve(m[1]);
+    });
+    app.on('exit', (code) => reject(new Error(`start exited early with ${code}: ${out}`)));
+  });
+  return { app, url };
 }

@@ -1,11 +1,11 @@
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdirSync, mkdtempSync } from 'node:fs';
 import { request } from 'node:http';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { launchChromium, watchErrors } from './browser.js';
+import { launchChromium, startServedApp, watchErrors } from './browser.js';
 
 // `npm start` without the Electron binary: the served app, opened here in headless Chromium.
 describe('npm start, browser mode', () => {
@@ -16,19 +16,7 @@ describe('npm start, browser mode', () => {
   beforeAll(async () => {
     const data = mkdtempSync(join(tmpdir(), 'falciform-start-'));
     mkdirSync(data, { recursive: true });
-    app = spawn(process.execPath, ['scripts/start.mjs'], {
-      env: { ...process.env, FALCIFORM_BROWSER: 'none', FALCIFORM_DATA_DIR: data },
-      stdio: ['ignore', 'pipe', 'inherit'],
-    });
-    url = await new Promise<string>((resolve, reject) => {
-      let out = '';
-      app.stdout!.on('data', (chunk) => {
-        out += chunk;
-        const m = out.match(/served at (http:\/\/127\.0\.0\.1:\d+\/)/);
-        if (m) resolve(m[1]);
-      });
-      app.on('exit', (code) => reject(new Error(`start exited early with ${code}: ${out}`)));
-    });
+    ({ app, url } = await startServedApp(data));
     browser = await launchChromium();
   });
 
