@@ -1,5 +1,3 @@
-import { FalciformError } from '../errors.js';
-
 /** A usage mistake on the command line: exit code 2. */
 export class UsageError extends Error {
   override name = 'UsageError';
@@ -55,5 +53,3 @@ export function numberOption(args: ParsedArgs, name: string, fallback: number): 
   if (!Number.isFinite(x) || x < 0) throw new UsageError(`--${name} must be a non-negative number, got "${v}"`);
   return x;
 }
-
-export { FalciformError };

@@ -4,7 +4,7 @@ import { basename, dirname, join } from 'node:path';
 import { createGunzip, gzipSync } from 'node:zlib';
 import { badFile } from '../errors.js';
 import type { Volume } from '../volume/volume.js';
-import { checkBudget, DEFAULT_MAX_BYTES, isGzip, readNifti, type Inflate, type LoadedNifti } from '../volume/nifti-read.js';
+import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti } from '../volume/nifti-read.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../volume/nifti-header.js';
 import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
 
@@ -14,8 +14,7 @@ import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
  */
 export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
   new Promise((resolve, reject) => {
-    // Deflate expands at most about 1032:1, so a tiny file cannot make us reserve a huge buffer.
-    const cap = Math.max(0, Math.min(maxOutputBytes, gz.length * 1032 + 1024));
+    const cap = inflateCapacity(gz, maxOutputBytes);
     const out = new Uint8Array(cap);
     let n = 0;
     let settled = false;

@@ -1,3 +1,4 @@
+import { roundTo } from '../rounding.js';
 import { SEGMENT_NAMES, type SegmentName } from '../segments/segment-map.js';
 import { round1 } from './recist.js';
 
@@ -36,13 +37,8 @@ export function burdenBySegment(visits: readonly { id: string; lesions: readonly
         sum += l.longestAxialMm;
         volume = volume === null || l.volumeMl === null ? null : volume + l.volumeMl;
       }
-      rows.push({ visit: v.id, segment, count, sumLongestAxialMm: round1(sum), volumeMl: volume === null ? null : round2(volume) });
+      rows.push({ visit: v.id, segment, count, sumLongestAxialMm: round1(sum), volumeMl: volume === null ? null : roundTo(volume, 2) });
     }
   }
   return rows;
-}
-
-export function round2(x: number): number {
-  const r = Math.round(x * 100) / 100;
-  return r === 0 ? 0 : r;
 }

@@ -1,11 +1,12 @@
 import type { Vec3 } from '../geometry/mat4.js';
 import { applyRigid, invertRigid } from '../geometry/rigid.js';
 import { badInput } from '../errors.js';
+import { roundTo } from '../rounding.js';
 import type { LandmarkSet } from '../segments/landmarks.js';
 import type { SegmentName } from '../segments/segment-map.js';
 import type { Volume } from '../volume/volume.js';
 import { alignVisit, referenceAlignment, type Alignment, type AlignmentMethod } from './align.js';
-import { burdenBySegment, round2, type BurdenRow } from './burden.js';
+import { burdenBySegment, type BurdenRow } from './burden.js';
 import { compareIds } from './ids.js';
 import { describeLiver, insideGrid, type LiverShape } from './liver-shape.js';
 import { mrecistTargetCategory, selectViableTargets, viableFromComponents, type ViableComponent } from './mrecist.js';
@@ -295,7 +296,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
       goneLesions: withStatus('gone'),
       notEvaluable: withStatus('not-evaluable'),
       marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => alerts(l, opts.marginMm))).map((t) => t.id),
-      alignment: { method: a.method, residualMm: a.residualMm === null ? null : round2(a.residualMm), rotationDeg: round2(a.rotationDeg), warnings: a.warnings },
+      alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
     };
   });
 
@@ -375,7 +376,7 @@ function summariseTrack(
     out.lesions[v.id] = ls[0].id;
     out.segments[v.id] = ls[0].segment;
     if (ls.length > 1) (out.fragments ??= {})[v.id] = ls.map((l) => l.id).sort(compareIds);
-    out.volumeMl[v.id] = ls.some((l) => l.volumeMl === null) ? null : round2(ls.reduce((s, l) => s + (l.volumeMl ?? 0), 0));
+    out.volumeMl[v.id] = ls.some((l) => l.volumeMl === null) ? null : roundTo(ls.reduce((s, l) => s + (l.volumeMl ?? 0), 0), 2);
     if (viableAt) {
       const x = viableAt(t, k);
       (out.viableAxialMm ??= {})[v.id] = x === null ? null : round1(x);

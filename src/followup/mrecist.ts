@@ -1,4 +1,5 @@
 import type { Vec3 } from '../geometry/mat4.js';
+import { distance } from '../geometry/vec3.js';
 import { PD_MIN_INCREASE_MM, selectTargets, targetCategory, type TargetCandidate, type TargetCategory, type TargetSums } from './recist.js';
 
 /**
@@ -57,7 +58,7 @@ export function viableFromComponents(
     let best: string | null = null;
     let bestD = Infinity;
     for (const l of lesions) {
-      const d = Math.hypot(c.centroidMm[0] - l.centroidMm[0], c.centroidMm[1] - l.centroidMm[1], c.centroidMm[2] - l.centroidMm[2]);
+      const d = distance(c.centroidMm, l.centroidMm);
       if (d <= l.longestAxialMm / 2 + VIABLE_TOLERANCE_MM && d < bestD) {
         bestD = d;
         best = l.id;

@@ -1,3 +1,5 @@
+import { roundTo } from '../rounding.js';
+
 /**
  * RECIST 1.1 response rules (Eisenhauer et al., Eur J Cancer 2009;45:228-247; section numbers
  * below from memory) as small pure functions over numbers, so each rule can be checked on its own and reused for mRECIST, which
@@ -166,7 +168,7 @@ export function overallResponse(target: TargetCategory | 'none', nonTarget: NonT
   return target;
 }
 
+/** A diameter as recorded: to 0.1 mm. */
 export function round1(x: number): number {
-  const r = Math.round(x * 10) / 10;
-  return r === 0 ? 0 : r;
+  return roundTo(x, 1);
 }

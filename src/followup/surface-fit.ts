@@ -62,52 +62,67 @@ function startingTransforms(moving: LiverShape, fixed: LiverShape): RigidTransfo
 }
 
 class IcpBuffers {
-  readonly matched: Float64Array;
-  readonly kept: Float64Array;
-  readonly keptSrc: Float64Array;
+  /** Each source point moved by the transform being tried. */
+  readonly moved: Float64Array;
+  /** Index of the reference surface point nearest each moved point. */
+  readonly nearest: Int32Array;
   readonly d2: Float64Array;
   readonly sorted: Float64Array;
+  /** The kept pairs of a point-to-point step: source points and their partners. */
+  readonly keptSrc: Float64Array;
+  readonly kept: Float64Array;
   constructor(n: number) {
-    this.matched = new Float64Array(3 * n);
-    this.kept = new Float64Array(3 * n);
-    this.keptSrc = new Float64Array(3 * n);
+    this.moved = new Float64Array(3 * n);
+    this.nearest = new Int32Array(n);
     this.d2 = new Float64Array(n);
     this.sorted = new Float64Array(n);
+    this.keptSrc = new Float64Array(3 * n);
+    this.kept = new Float64Array(3 * n);
   }
+}
+
+/** How many of n pairs the trimming keeps. */
+const trimmedCount = (n: number) => Math.max(3, Math.floor(n * TRIM_KEEP));
+
+/**
+ * Moves every source point by `t` and pairs it with its nearest reference surface point (into
+ * `w.moved`, `w.nearest`, `w.d2`). Returns the squared distance within which the kept share lies.
+ */
+function pairWithSurface(src: Float64Array, grid: PointGrid, t: RigidTransform, w: IcpBuffers): number {
+  const n = src.length / 3;
+  const r = t.rotation, p = t.translation;
+  for (let s = 0; s < n; s++) {
+    const x = src[3 * s], y = src[3 * s + 1], z = src[3 * s + 2];
+    const px = r[0] * x + r[1] * y + r[2] * z + p[0];
+    const py = r[3] * x + r[4] * y + r[5] * z + p[1];
+    const pz = r[6] * x + r[7] * y + r[8] * z + p[2];
+    w.nearest[s] = grid.nearest(px, py, pz);
+    w.d2[s] = grid.lastDistance2;
+    w.moved[3 * s] = px; w.moved[3 * s + 1] = py; w.moved[3 * s + 2] = pz;
+  }
+  w.sorted.set(w.d2);
+  w.sorted.sort();
+  return w.sorted[Math.min(n, trimmedCount(n)) - 1];
 }
 
 function icp(
   src: Float64Array, grid: PointGrid, target: Float64Array, start: RigidTransform, iterations: number, w: IcpBuffers,
 ): SurfaceFit {
   const n = src.length / 3;
+  const keep = trimmedCount(n);
   let t = start;
   let previous = Infinity;
   let residual = Infinity;
   for (let it = 0; it <= iterations; it++) {
-    const r = t.rotation, p = t.translation;
-    for (let s = 0; s < n; s++) {
-      const x = src[3 * s], y = src[3 * s + 1], z = src[3 * s + 2];
-      const q = grid.nearest(
-        r[0] * x + r[1] * y + r[2] * z + p[0],
-        r[3] * x + r[4] * y + r[5] * z + p[1],
-        r[6] * x + r[7] * y + r[8] * z + p[2],
-      );
-      w.d2[s] = grid.lastDistance2;
-      w.matched[3 * s] = target[3 * q];
-      w.matched[3 * s + 1] = target[3 * q + 1];
-      w.matched[3 * s + 2] = target[3 * q + 2];
-    }
-    w.sorted.set(w.d2);
-    w.sorted.sort();
-    const keep = Math.max(3, Math.floor(n * TRIM_KEEP));
-    const cut = w.sorted[Math.min(n, keep) - 1];
+    const cut = pairWithSurface(src, grid, t, w);
     let m = 0, ss = 0;
     for (let s = 0; s < n && m < keep; s++) {
       if (w.d2[s] > cut) continue;
       ss += w.d2[s];
+      const q = w.nearest[s];
       for (let c = 0; c < 3; c++) {
         w.keptSrc[3 * m + c] = src[3 * s + c];
-        w.kept[3 * m + c] = w.matched[3 * s + c];
+        w.kept[3 * m + c] = target[3 * q + c];
       }
       m++;
     }
@@ -132,27 +147,14 @@ function refineAlongNormals(src: Float64Array, grid: PointGrid, fixed: LiverShap
   const row = new Float64Array(6);
   let t = start;
   for (let it = 0; it < MAX_ITERATIONS; it++) {
-    const r = t.rotation, p = t.translation;
-    for (let s = 0; s < n; s++) {
-      const x = src[3 * s], y = src[3 * s + 1], z = src[3 * s + 2];
-      const px = r[0] * x + r[1] * y + r[2] * z + p[0];
-      const py = r[3] * x + r[4] * y + r[5] * z + p[1];
-      const pz = r[6] * x + r[7] * y + r[8] * z + p[2];
-      const q = grid.nearest(px, py, pz);
-      w.d2[s] = grid.lastDistance2;
-      w.matched[3 * s] = px; w.matched[3 * s + 1] = py; w.matched[3 * s + 2] = pz;
-      w.kept[3 * s] = q;
-    }
-    w.sorted.set(w.d2);
-    w.sorted.sort();
-    const cut = w.sorted[Math.max(3, Math.floor(n * TRIM_KEEP)) - 1];
+    const cut = pairWithSurface(src, grid, t, w);
     ata.fill(0);
     atb.fill(0);
     for (let s = 0; s < n; s++) {
       if (w.d2[s] > cut) continue;
-      const q = w.kept[3 * s];
+      const q = w.nearest[s];
       const nx = normals[3 * q], ny = normals[3 * q + 1], nz = normals[3 * q + 2];
-      const px = w.matched[3 * s], py = w.matched[3 * s + 1], pz = w.matched[3 * s + 2];
+      const px = w.moved[3 * s], py = w.moved[3 * s + 1], pz = w.moved[3 * s + 2];
       row[0] = py * nz - pz * ny; row[1] = pz * nx - px * nz; row[2] = px * ny - py * nx;
       row[3] = nx; row[4] = ny; row[5] = nz;
       const b = -((px - target[3 * q]) * nx + (py - target[3 * q + 1]) * ny + (pz - target[3 * q + 2]) * nz);
@@ -179,25 +181,15 @@ function refineAlongNormals(src: Float64Array, grid: PointGrid, fixed: LiverShap
  */
 function trimmedResidual(src: Float64Array, grid: PointGrid, fixed: LiverShape, t: RigidTransform, w: IcpBuffers): number {
   const n = src.length / 3;
-  const r = t.rotation, p = t.translation;
   const target = fixed.surface, normals = fixed.normals;
-  for (let s = 0; s < n; s++) {
-    const x = src[3 * s], y = src[3 * s + 1], z = src[3 * s + 2];
-    const px = r[0] * x + r[1] * y + r[2] * z + p[0];
-    const py = r[3] * x + r[4] * y + r[5] * z + p[1];
-    const pz = r[6] * x + r[7] * y + r[8] * z + p[2];
-    const q = grid.nearest(px, py, pz);
-    w.d2[s] = grid.lastDistance2;
-    const along = (px - target[3 * q]) * normals[3 * q] + (py - target[3 * q + 1]) * normals[3 * q + 1] + (pz - target[3 * q + 2]) * normals[3 * q + 2];
-    w.matched[s] = along * along;
-  }
-  w.sorted.set(w.d2);
-  w.sorted.sort();
-  const cut = w.sorted[Math.max(3, Math.floor(n * TRIM_KEEP)) - 1];
+  const cut = pairWithSurface(src, grid, t, w);
   let ss = 0, m = 0;
   for (let s = 0; s < n; s++) {
     if (w.d2[s] > cut) continue;
-    ss += w.matched[s];
+    const q = w.nearest[s];
+    const along = (w.moved[3 * s] - target[3 * q]) * normals[3 * q] + (w.moved[3 * s + 1] - target[3 * q + 1]) * normals[3 * q + 1] +
+      (w.moved[3 * s + 2] - target[3 * q + 2]) * normals[3 * q + 2];
+    ss += along * along;
     m++;
   }
   return Math.sqrt(ss / m);

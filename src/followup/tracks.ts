@@ -1,4 +1,5 @@
 import type { Vec3 } from '../geometry/mat4.js';
+import { distance } from '../geometry/vec3.js';
 import { badInput } from '../errors.js';
 import { assignWithGate } from './hungarian.js';
 import { compareIds } from './ids.js';
@@ -300,8 +301,4 @@ function reference(ls: readonly TrackLesion[]): Reference {
 
 function sortedByLesionId(ns: number[], lesions: readonly TrackLesion[]): number[] {
   return [...ns].sort((a, b) => compareIds(lesions[a].id, lesions[b].id));
-}
-
-function distance(a: Vec3, b: Vec3): number {
-  return Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
 }

@@ -1,4 +1,5 @@
 import type { Vec3 } from './mat4.js';
+import { cross, dot, normalise } from './vec3.js';
 import { det3, mul3, symmetricEigen3, transpose3, type Mat3 } from './eigen.js';
 
 /**
@@ -51,12 +52,6 @@ export function composeRigid(a: RigidTransform, b: RigidTransform): RigidTransfo
 export function rotationAngleDeg(r: Mat3): number {
   const c = Math.min(1, Math.max(-1, (r[0] + r[4] + r[8] - 1) / 2));
   return (Math.acos(c) * 180) / Math.PI;
-}
-
-/** Row-major 4×4 affine of a rigid transform, for display next to voxel affines. */
-export function rigidToAffine(t: RigidTransform): number[] {
-  const r = t.rotation, p = t.translation;
-  return [r[0], r[1], r[2], p[0], r[3], r[4], r[5], p[1], r[6], r[7], r[8], p[2], 0, 0, 0, 1];
 }
 
 /**
@@ -120,18 +115,13 @@ function properRotationFromCovariance(h: number[]): number[] {
   const u1 = normalise(hv(v1));
   // Gram–Schmidt against u1 keeps U orthonormal when σ1 ≈ σ2 and rounding mixes the two.
   const w = hv(v2);
-  const d = u1[0] * w[0] + u1[1] * w[1] + u1[2] * w[2];
+  const d = dot(u1, w);
   const u2 = normalise([w[0] - d * u1[0], w[1] - d * u1[1], w[2] - d * u1[2]]);
-  const u3: Vec3 = [u1[1] * u2[2] - u1[2] * u2[1], u1[2] * u2[0] - u1[0] * u2[2], u1[0] * u2[1] - u1[1] * u2[0]];
+  const u3 = cross(u1, u2);
   // symmetricEigen3 returns a right-handed V, so V·Uᵀ is a proper rotation.
   const U = [u1[0], u2[0], u3[0], u1[1], u2[1], u3[1], u1[2], u2[2], u3[2]];
   const V = [v1[0], v2[0], v3[0], v1[1], v2[1], v3[1], v1[2], v2[2], v3[2]];
   const r = mul3(V, transpose3(U));
   if (det3(r) < 0) throw new Error('rigid fit produced a reflection');
   return r;
-}
-
-function normalise(x: Vec3): [number, number, number] {
-  const n = Math.hypot(x[0], x[1], x[2]);
-  return [x[0] / n, x[1] / n, x[2] / n];
 }

@@ -123,7 +123,7 @@ function splitByValue(
  * ends up contiguous; a bit set over the seeds' index range marks visited voxels. Components come in
  * the order of their first voxel; each one's indices are sorted.
  */
-export function components26(
+function components26(
   data: VoxelArray,
   dims: readonly [number, number, number],
   storedValue: number,

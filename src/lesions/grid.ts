@@ -1,24 +1,16 @@
-import { multiply, type Mat4 } from '../geometry/mat4.js';
+import type { Mat4, Vec3 } from '../geometry/mat4.js';
+import { dot, norm } from '../geometry/vec3.js';
 import type { Volume } from '../volume/volume.js';
-
-export { sameGrid } from '../volume/resample.js';
-
-/** Affine from voxel coordinates of `from` to (continuous) voxel coordinates of `to`, via world mm. */
-export function gridToGrid(from: Volume, to: Volume): number[] {
-  return multiply(to.inverse, from.affine);
-}
 
 /**
  * True when the grid axes are perpendicular in world space. Only then is a voxel's box its Voronoi
  * cell and a separable distance transform exact.
  */
 export function orthogonalColumns(affine: Mat4): boolean {
-  const col = (c: number) => [affine[c], affine[4 + c], affine[8 + c]];
+  const col = (c: number): Vec3 => [affine[c], affine[4 + c], affine[8 + c]];
   const cols = [col(0), col(1), col(2)];
   for (const [a, b] of [[0, 1], [0, 2], [1, 2]]) {
-    const x = cols[a], y = cols[b];
-    const dot = x[0] * y[0] + x[1] * y[1] + x[2] * y[2];
-    if (Math.abs(dot) > 1e-9 * Math.hypot(x[0], x[1], x[2]) * Math.hypot(y[0], y[1], y[2])) return false;
+    if (Math.abs(dot(cols[a], cols[b])) > 1e-9 * norm(cols[a]) * norm(cols[b])) return false;
   }
   return true;
 }

@@ -1,8 +1,9 @@
 import type { Vec3 } from '../geometry/mat4.js';
 import type { SegmentMap, SegmentName } from '../segments/segment-map.js';
+import { sameGrid } from '../volume/resample.js';
 import type { Volume } from '../volume/volume.js';
 import type { LesionVoxels } from './components.js';
-import { orthogonalColumns, sameGrid } from './grid.js';
+import { orthogonalColumns } from './grid.js';
 import { nearestVoxelInBall } from './nearest-voxel.js';
 import { PointTree } from './point-tree.js';
 import { BACKGROUND, segmentLookup, segmentName, type SegmentIndex } from './segment-lookup.js';

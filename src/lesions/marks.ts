@@ -1,5 +1,6 @@
 import { badFile } from '../errors.js';
 import type { Vec3 } from '../geometry/mat4.js';
+import { describeJsonValue, isJsonObject, parseJsonFile } from '../json-file.js';
 import type { Lesion } from './lesion.js';
 
 /** A lesion measured by hand: centre and calipers in world RAS mm (contracts, "Manual marks"). */
@@ -23,24 +24,19 @@ const ENDPOINT_TOLERANCE_MM = 1;
  * out when the endpoints are given. Throws a bad-file error naming the mark and the problem.
  */
 export function parseMarks(text: string, file: string): Mark[] {
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (e) {
-    throw badFile(file, `not valid JSON (${(e as Error).message})`);
-  }
-  if (!isObject(json)) throw badFile(file, 'a marks file must be a JSON object with a "marks" list');
+  const json = parseJsonFile(text, file);
+  if (!isJsonObject(json)) throw badFile(file, 'a marks file must be a JSON object with a "marks" list');
   if (json.space !== undefined && json.space !== 'RAS') {
-    throw badFile(file, `space is ${describeValue(json.space)}; marks must be in world RAS coordinates ("RAS")`);
+    throw badFile(file, `space is ${describeJsonValue(json.space)}; marks must be in world RAS coordinates ("RAS")`);
   }
   if (json.units !== undefined && json.units !== 'mm') {
-    throw badFile(file, `units are ${describeValue(json.units)}; marks must be in millimetres ("mm")`);
+    throw badFile(file, `units are ${describeJsonValue(json.units)}; marks must be in millimetres ("mm")`);
   }
   if (!Array.isArray(json.marks)) throw badFile(file, 'a marks file needs a list "marks"');
   const seen = new Set<string>();
   return json.marks.map((raw: unknown, n: number) => {
     const where = `mark ${n + 1}`;
-    if (!isObject(raw)) throw badFile(file, `${where} is not an object`);
+    if (!isJsonObject(raw)) throw badFile(file, `${where} is not an object`);
     const id = raw.id;
     if (typeof id !== 'string' || id.trim() === '') throw badFile(file, `${where} needs a non-empty "id"`);
     const who = `mark "${id}"`;
@@ -102,15 +98,4 @@ function point(x: unknown, file: string, what: string): Vec3 {
 function length(x: unknown, file: string, what: string): number {
   if (typeof x !== 'number' || !Number.isFinite(x) || x < 0) throw badFile(file, `${what} must be a length in mm (a number ≥ 0)`);
   return x;
-}
-
-function isObject(x: unknown): x is Record<string, unknown> {
-  return typeof x === 'object' && x !== null && !Array.isArray(x);
-}
-
-/** A short description of a JSON value for a message; nested values are not stringified (they may be deep). */
-function describeValue(v: unknown): string {
-  if (Array.isArray(v)) return 'a list';
-  if (v !== null && typeof v === 'object') return 'an object';
-  return JSON.stringify(v) ?? String(v);
 }

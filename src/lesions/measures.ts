@@ -1,7 +1,7 @@
 import { transformPoint, type Mat4, type Vec3 } from '../geometry/mat4.js';
+import { gridToGrid, sameGrid } from '../volume/resample.js';
 import { axialAxis, voxelVolumeMl, type Volume } from '../volume/volume.js';
 import type { LesionVoxels } from './components.js';
-import { gridToGrid, sameGrid } from './grid.js';
 import type { Lesion } from './lesion.js';
 
 /**

@@ -1,7 +1,7 @@
 import type { Vec3 } from '../geometry/mat4.js';
 import { SEGMENT_NAMES, type SegmentMap, type SegmentName } from '../segments/segment-map.js';
+import { gridToGrid, sameGrid } from '../volume/resample.js';
 import { voxelIndexAtWorld, type Volume } from '../volume/volume.js';
-import { gridToGrid, sameGrid } from './grid.js';
 import { nearestVoxelInBall } from './nearest-voxel.js';
 import { BACKGROUND, segmentLookup, segmentName, type SegmentIndex } from './segment-lookup.js';
 
@@ -22,7 +22,7 @@ export interface Placement {
 }
 
 /** Segment at a world point by the brief's rule, with the fallback and its warning. */
-export function segmentOfPoint(
+function segmentOfPoint(
   map: SegmentMap,
   p: Vec3,
   who: string,

@@ -1,13 +1,11 @@
-import type { SegmentName } from '../segments/segment-map.js';
-
-/** The eight Couinaud segments a resection names; 'IV' stands for IVa and IVb on a split map. */
-export type WholeSegment = 'I' | 'II' | 'III' | 'IV' | 'V' | 'VI' | 'VII' | 'VIII';
+import { WHOLE_SEGMENTS, type SegmentName, type WholeSegment } from '../segments/segment-map.js';
 
 export interface ResectionPreset {
   readonly id: string;
   readonly name: string;
   /** Other names the terminology accepts for the same operation. */
   readonly alsoCalled: readonly string[];
+  /** 'IV' stands for IVa and IVb on a split map. */
   readonly removes: readonly WholeSegment[];
 }
 
@@ -36,7 +34,7 @@ export const RESECTION_PRESETS: readonly ResectionPreset[] = [
     id: 'left-trisectionectomy', name: 'Left trisectionectomy',
     alsoCalled: ['Extended left hemihepatectomy', 'Extended left hepatectomy'], removes: ['II', 'III', 'IV', 'V', 'VIII'],
   },
-  ...(['I', 'II', 'III', 'IV', 'V', 'VI', 'VII', 'VIII'] as const).map(
+  ...WHOLE_SEGMENTS.map(
     (s, n): ResectionPreset => ({ id: `segmentectomy-${n + 1}`, name: `Segmentectomy ${s}`, alsoCalled: [`Segmentectomy ${n + 1}`], removes: [s] }),
   ),
 ];

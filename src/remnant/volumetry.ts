@@ -1,7 +1,8 @@
 import { badInput } from '../errors.js';
-import { multiply } from '../geometry/mat4.js';
+import { segmentLookup } from '../lesions/segment-lookup.js';
 import { SEGMENT_NAMES, type SegmentMap, type SegmentName } from '../segments/segment-map.js';
 import { segmentVolumes } from '../segments/volumes.js';
+import { gridToGrid } from '../volume/resample.js';
 import { voxelVolumeMl, type Volume } from '../volume/volume.js';
 
 /** A lesion known only by its diameters (a manual mark), placed in a segment. */
@@ -121,17 +122,14 @@ function ellipsoidMl(t: TumourDiameters, n: number): number {
  * multiply-adds per voxel; rounding to the nearest voxel matches `segmentAtWorld`.
  */
 function countMaskPerSegment(map: SegmentMap, mask: Volume, nSlots: number): { perSegment: Float64Array; outside: number } {
-  const m = multiply(map.labels.inverse, mask.affine);
+  const m = gridToGrid(mask, map.labels);
   const [nx, ny, nz] = mask.dims;
   const [mx, my, mz] = map.labels.dims;
   const { data, slope, inter } = mask;
-  const labels = map.labels;
-  const slotOf = new Map<number, number>();
-  for (const [value, name] of map.scheme) slotOf.set(value, SEGMENT_NAMES.indexOf(name));
+  // Slots are SEGMENT_NAMES indices, as the lookup gives them.
+  const seg = segmentLookup(map);
   const perSegment = new Float64Array(nSlots);
   let outside = 0;
-  let lastRaw = NaN;
-  let lastSlot = -1;
   let n = 0;
   for (let k = 0; k < nz; k++) {
     for (let j = 0; j < ny; j++) {
@@ -147,14 +145,9 @@ function countMaskPerSegment(map: SegmentMap, mask: Volume, nSlots: number): { p
           outside++;
           continue;
         }
-        // Label maps come in long runs, so remembering the last value spares most Map lookups.
-        const raw = labels.data[a + mx * (b + my * c)];
-        if (raw !== lastRaw) {
-          lastRaw = raw;
-          lastSlot = slotOf.get(raw * labels.slope + labels.inter) ?? -1;
-        }
-        if (lastSlot < 0) outside++;
-        else perSegment[lastSlot]++;
+        const s = seg(a + mx * (b + my * c));
+        if (s < 0) outside++;
+        else perSegment[s]++;
       }
     }
   }

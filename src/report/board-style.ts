@@ -12,7 +12,7 @@ export const PAGE_SIZES: readonly PageSize[] = ['A4', 'Letter'];
 const PAGE_MARGIN_MM = 9;
 const PAGE_MM: Record<PageSize, [number, number]> = { A4: [210, 297], Letter: [215.9, 279.4] };
 
-export function printableMm(page: PageSize): [number, number] {
+function printableMm(page: PageSize): [number, number] {
   const [w, h] = PAGE_MM[page];
   return [w - 2 * PAGE_MARGIN_MM, h - 2 * PAGE_MARGIN_MM];
 }
@@ -21,7 +21,7 @@ export function printableMm(page: PageSize): [number, number] {
  * The @page rule for one paper size. The layout is made for A4; on Letter, which is 18 mm shorter,
  * the A4 sheet is drawn smaller by the ratio of the printable heights, so it stays one page.
  */
-export function pageRule(page: PageSize): string {
+function pageRule(page: PageSize): string {
   const rule = `@page { size: ${page === 'A4' ? 'A4' : 'letter'} portrait; margin: ${PAGE_MARGIN_MM}mm; }`;
   if (page === 'A4') return rule;
   // The A4 layout width is kept too: the charts scale with the width, and a wider sheet is a taller one.
@@ -35,7 +35,7 @@ export function pageRule(page: PageSize): string {
  */
 const SHEET_MIN_HEIGHT_MM = 297 - 2 * PAGE_MARGIN_MM - 3;
 
-export const BOARD_CSS = `
+const BOARD_CSS = `
 .board-sheet {
   --b-ink: #1d2327; --b-muted: #55616a; --b-line: #c9cfca; --b-soft: #f1f3f1; --b-warn: #fff2cc; --b-warn-ink: #5c4100;
   box-sizing: border-box; color: var(--b-ink); background: #ffffff;

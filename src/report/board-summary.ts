@@ -162,7 +162,7 @@ function keepEnds<T>(xs: readonly T[], max: number): { kept: T[]; left: T[] } {
 }
 
 /** "2026-06-29 14:05 UTC": the moment the page was made, in one unambiguous zone. */
-export function madeAtText(d: Date): string {
+function madeAtText(d: Date): string {
   return `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
 }
 

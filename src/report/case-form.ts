@@ -1,5 +1,6 @@
 import { CAUTION } from '../caution.js';
 import type { FollowupResult, TrackSummary } from '../followup/followup.js';
+import { roundTo } from '../rounding.js';
 import { SEGMENT_NAMES } from '../segments/segment-map.js';
 import type { LesionResult } from '../visit/analyze.js';
 import { VERSION } from '../version.js';
@@ -25,9 +26,7 @@ export type CaseFormRow = Record<CaseFormColumn, string>;
 /** Shortest decimal of x rounded to `digits` places: 24.67, 14, 0.4 (as the JSON outputs give them). */
 export function decimal(x: number | null | undefined, digits: number): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '';
-  const f = 10 ** digits;
-  const y = Math.round(x * f) / f;
-  return String(Object.is(y, -0) ? 0 : y);
+  return String(roundTo(x, digits));
 }
 
 const yesNo = (b: boolean) => (b ? 'yes' : 'no');

@@ -11,7 +11,7 @@ export function csvField(value: string): string {
   return NEEDS_QUOTES.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
-export function csvRecord(fields: readonly string[]): string {
+function csvRecord(fields: readonly string[]): string {
   return `${fields.map(csvField).join(',')}\r\n`;
 }
 

@@ -1,5 +1,6 @@
-import { multiply, type Mat4 } from '../geometry/mat4.js';
+import type { Mat4 } from '../geometry/mat4.js';
 import { badFile } from '../errors.js';
+import { gridToGrid } from '../volume/resample.js';
 import { makeVolume, voxelIndexAtWorld, type Volume } from '../volume/volume.js';
 import { checkLandmarks, type LandmarkSet } from './landmarks.js';
 import { landmarkPlanes, type Plane } from './planes.js';
@@ -95,7 +96,13 @@ export function buildSegmentMap(
     warnings.push(`segment${empty.length > 1 ? 's' : ''} ${empty.join(', ')} got no voxels; check the landmarks against the scan`);
   }
   const labels = makeVolume(liver.dims, out, liver.affine, 'uint8');
-  return { map: { labels, scheme: defaultScheme(split) }, warnings };
+  // The loop counted every label already; the map carries the counts so its volumes need no recount.
+  const labelCounts = new Map<number, number>();
+  if (out.length > liverVoxels) labelCounts.set(0, out.length - liverVoxels);
+  counts.forEach((c, label) => {
+    if (c > 0) labelCounts.set(label, c);
+  });
+  return { map: { labels, scheme: defaultScheme(split), labelCounts }, warnings };
 }
 
 /** Plane coefficients in voxel index space: d(i, j, k) = c[0]·i + c[1]·j + c[2]·k + c[3] (mm). */
@@ -119,7 +126,7 @@ function caudateLookup(caudate: Volume, liver: Volume): { at(i: number, j: numbe
   const data = caudate.data;
   const slope = caudate.slope;
   const inter = caudate.inter;
-  const T = multiply(caudate.inverse, liver.affine);
+  const T = gridToGrid(liver, caudate);
   return {
     at(i, j, k) {
       const a = Math.round(T[0] * i + T[1] * j + T[2] * k + T[3]);

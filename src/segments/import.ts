@@ -44,5 +44,5 @@ export function importSegmentMap(
   if (present.has('IV') && (present.has('IVa') || present.has('IVb'))) {
     warnings.push(`${file}: the map holds both IV and IVa/IVb; segment IV volumes overlap`);
   }
-  return { map: { labels, scheme: chosen }, unknownLabels, warnings };
+  return { map: { labels, scheme: chosen, labelCounts: counts }, unknownLabels, warnings };
 }

@@ -1,4 +1,10 @@
 import type { Volume } from '../volume/volume.js';
+import type { SegmentMap } from './segment-map.js';
+
+/** The counts the map carries, else counted now. */
+export function labelCountsOf(map: SegmentMap): ReadonlyMap<number, number> {
+  return map.labelCounts ?? countLabelValues(map.labels);
+}
 
 /**
  * Voxel count per distinct label value (after scaling), background included. Small integer types

@@ -1,6 +1,8 @@
 import type { Vec3 } from '../geometry/mat4.js';
 import { badLandmarks } from '../errors.js';
-import { cross, ivcAxis, norm, signedDistance, sub, veinPlane } from './planes.js';
+import { cross, norm, sub } from '../geometry/vec3.js';
+import { describeJsonValue, isJsonObject, parseJsonFile } from '../json-file.js';
+import { ivcAxis, signedDistance, veinPlane } from './planes.js';
 
 /** The six points of a landmark set (world RAS mm), as named in the landmark-set file. */
 export const LANDMARK_NAMES = [
@@ -24,28 +26,20 @@ export const MIN_VEIN_AXIS_DISTANCE_MM = 5;
 
 /** Reads a landmark-set file: `{"space": "RAS", "units": "mm", "points": {name: [x, y, z], …}}`. */
 export function parseLandmarks(text: string, file: string): LandmarkSet {
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (e) {
-    throw badLandmarks(file, `not valid JSON (${(e as Error).message})`);
-  }
-  return landmarkSetFromJson(json, file);
+  return landmarkSetFromJson(parseJsonFile(text, file, badLandmarks), file);
 }
 
 /** Validates one landmark-set object (also used for each entry of a reference file). */
 export function landmarkSetFromJson(json: unknown, file: string, where = ''): LandmarkSet {
   const at = where ? `${where}: ` : '';
-  if (typeof json !== 'object' || json === null || Array.isArray(json)) throw badLandmarks(file, `${at}expected a landmark-set object`);
-  const obj = json as Record<string, unknown>;
+  if (!isJsonObject(json)) throw badLandmarks(file, `${at}expected a landmark-set object`);
   // Points in LPS (the DICOM convention) would mirror the map left to right: refuse anything but RAS mm.
-  if (obj.space !== undefined && obj.space !== 'RAS') {
-    throw badLandmarks(file, `${at}space is ${shown(obj.space)}; landmark points must be in RAS (convert LPS by negating x and y)`);
+  if (json.space !== undefined && json.space !== 'RAS') {
+    throw badLandmarks(file, `${at}space is ${describeJsonValue(json.space)}; landmark points must be in RAS (convert LPS by negating x and y)`);
   }
-  if (obj.units !== undefined && obj.units !== 'mm') throw badLandmarks(file, `${at}units is ${shown(obj.units)}; expected "mm"`);
-  const raw = obj.points;
-  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw badLandmarks(file, `${at}expected an object "points"`);
-  const src = raw as Record<string, unknown>;
+  if (json.units !== undefined && json.units !== 'mm') throw badLandmarks(file, `${at}units is ${describeJsonValue(json.units)}; expected "mm"`);
+  const src = json.points;
+  if (!isJsonObject(src)) throw badLandmarks(file, `${at}expected an object "points"`);
   const problems: string[] = [];
   const points = {} as Record<LandmarkName, Vec3>;
   for (const name of LANDMARK_NAMES) {
@@ -57,15 +51,6 @@ export function landmarkSetFromJson(json: unknown, file: string, where = ''): La
   }
   if (problems.length > 0) throw badLandmarks(file, at + problems.join('; '));
   return { points };
-}
-
-/**
- * A wrong value as a message shows it. Lists and objects are named, not written out: JSON.stringify
- * recurses, so a value nested a few thousand deep (which JSON.parse accepts) overflowed the stack.
- */
-function shown(x: unknown): string {
-  if (Array.isArray(x)) return 'a list';
-  return typeof x === 'object' && x !== null ? 'an object' : JSON.stringify(x);
 }
 
 /**
@@ -107,7 +92,7 @@ export function checkLandmarks(set: LandmarkSet, file: string): void {
         `${v} is ${fromAxis.toFixed(1)} mm from the IVC axis; its plane is undefined (needs at least ${MIN_VEIN_AXIS_DISTANCE_MM} mm)`,
       );
       planesOk = false;
-    } else if (cross(sub(p.ivc_superior, p.ivc_inferior), off)[0] === 0) {
+    } else if (cross(axis, off)[0] === 0) {
       problems.push(`the plane through the IVC and ${v} faces straight forward, so it has no right side`);
       planesOk = false;
     }

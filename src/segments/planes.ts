@@ -1,4 +1,5 @@
 import type { Vec3 } from '../geometry/mat4.js';
+import { cross, dot, norm, normalise, sub } from '../geometry/vec3.js';
 import type { LandmarkSet } from './landmarks.js';
 
 /** A plane with unit normal; `signedDistance` is positive on the normal's side. */
@@ -20,31 +21,13 @@ export interface LandmarkPlanes {
   readonly portal: Plane;
 }
 
-export function sub(a: Vec3, b: Vec3): Vec3 {
-  return [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
-}
-
-export function dot(a: Vec3, b: Vec3): number {
-  return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-
-export function cross(a: Vec3, b: Vec3): Vec3 {
-  return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
-}
-
-export function norm(a: Vec3): number {
-  return Math.hypot(a[0], a[1], a[2]);
-}
-
 export function signedDistance(plane: Plane, p: Vec3): number {
   return dot(plane.normal, sub(p, plane.point));
 }
 
 /** Unit axis of the IVC, inferior to superior. */
 export function ivcAxis(set: LandmarkSet): Vec3 {
-  const d = sub(set.points.ivc_superior, set.points.ivc_inferior);
-  const len = norm(d);
-  return [d[0] / len, d[1] / len, d[2] / len];
+  return normalise(sub(set.points.ivc_superior, set.points.ivc_inferior));
 }
 
 /** Vertical plane through the IVC axis and a vein point, normal towards the patient's right. */

@@ -1,4 +1,6 @@
 import { badInput, badLandmarks } from '../errors.js';
+import { distance } from '../geometry/vec3.js';
+import { isJsonObject, parseJsonFile } from '../json-file.js';
 import { LANDMARK_NAMES, landmarkSetFromJson, type LandmarkName, type LandmarkSet } from './landmarks.js';
 
 /**
@@ -76,13 +78,8 @@ export function landmarkQc(set: LandmarkSet, earlier: LandmarkSet[], reference: 
 
 /** A reference file: a JSON array of landmark sets, or `{"sets": [...]}`. */
 export function parseReferenceSets(text: string, file: string): LandmarkSet[] {
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (e) {
-    throw badLandmarks(file, `not valid JSON (${(e as Error).message})`);
-  }
-  const list = Array.isArray(json) ? json : typeof json === 'object' && json !== null ? (json as { sets?: unknown }).sets : undefined;
+  const json = parseJsonFile(text, file, badLandmarks);
+  const list = Array.isArray(json) ? json : isJsonObject(json) ? json.sets : undefined;
   if (!Array.isArray(list)) throw badLandmarks(file, 'expected an array of landmark sets, or an object with an array "sets"');
   if (list.length === 0) throw badLandmarks(file, 'the reference file holds no landmark set');
   return list.map((entry, n) => landmarkSetFromJson(entry, file, `set ${n + 1}`));
@@ -92,7 +89,7 @@ function distances(set: LandmarkSet): Float64Array {
   const pts = LANDMARK_NAMES.map((n) => set.points[n]);
   const d = new Float64Array(PAIRS.length);
   PAIRS.forEach(([a, b], n) => {
-    d[n] = Math.hypot(pts[a][0] - pts[b][0], pts[a][1] - pts[b][1], pts[a][2] - pts[b][2]);
+    d[n] = distance(pts[a], pts[b]);
   });
   return d;
 }

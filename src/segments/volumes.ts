@@ -1,5 +1,5 @@
 import { voxelVolumeMl } from '../volume/volume.js';
-import { countLabelValues } from './label-counts.js';
+import { labelCountsOf } from './label-counts.js';
 import { SEGMENT_NAMES, type SegmentMap, type SegmentName } from './segment-map.js';
 
 export { resampleLabels } from './resample.js';
@@ -8,7 +8,7 @@ export { resampleLabels } from './resample.js';
 export function segmentVolumes(map: SegmentMap): { segment: SegmentName; volumeMl: number }[] {
   const voxelMl = voxelVolumeMl(map.labels);
   const perSegment = new Map<SegmentName, number>();
-  for (const [value, count] of countLabelValues(map.labels)) {
+  for (const [value, count] of labelCountsOf(map)) {
     const name = map.scheme.get(value);
     if (name !== undefined) perSegment.set(name, (perSegment.get(name) ?? 0) + count);
   }
@@ -21,6 +21,6 @@ export function segmentVolumes(map: SegmentMap): { segment: SegmentName; volumeM
 /** Liver volume in mL: every voxel that carries a segment of the scheme. */
 export function liverVolumeMl(map: SegmentMap): number {
   let voxels = 0;
-  for (const [value, count] of countLabelValues(map.labels)) if (map.scheme.has(value)) voxels += count;
+  for (const [value, count] of labelCountsOf(map)) if (map.scheme.has(value)) voxels += count;
   return voxels * voxelVolumeMl(map.labels);
 }

@@ -35,6 +35,14 @@ export const DEFAULT_MAX_BYTES = 2 * 1024 ** 3;
 /** Deflate cannot expand beyond about 1032:1 (zlib's documented limit); room for the gzip framing. */
 const MAX_DEFLATE_RATIO = 1032;
 
+/**
+ * The most bytes `gz` can inflate to, capped at `maxOutputBytes`: what an inflater reserves up
+ * front, so a tiny file cannot make it reserve a huge buffer.
+ */
+export function inflateCapacity(gz: Uint8Array, maxOutputBytes: number): number {
+  return Math.max(0, Math.min(maxOutputBytes, gz.length * MAX_DEFLATE_RATIO + 1024));
+}
+
 export function isGzip(bytes: Uint8Array): boolean {
   return bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b;
 }
@@ -62,7 +70,7 @@ export async function readNifti(bytes: Uint8Array, file: string, opts: ReadNifti
   let data = source;
   let where = 'file';
   if (isGzip(source)) {
-    const reachable = source.length * MAX_DEFLATE_RATIO + 1024;
+    const reachable = inflateCapacity(source, Infinity);
     if (info.voxOffset >= reachable) throw badFile(dataFile, `vox_offset ${info.voxOffset} is past the end of the compressed data`);
     data = await inflateOrFail(opts.inflate, source, Math.min(need, reachable), dataFile);
     where = 'decompressed data';

@@ -1,6 +1,11 @@
 import { multiply } from '../geometry/mat4.js';
 import type { Volume, VoxelArray } from './volume.js';
 
+/** Affine from voxel coordinates of `from` to (continuous) voxel coordinates of `to`, via world mm. */
+export function gridToGrid(from: Volume, to: Volume): number[] {
+  return multiply(to.inverse, from.affine);
+}
+
 /** True when two volumes share dims and, to well under a micrometre, their affine. */
 export function sameGrid(a: Volume, b: Volume): boolean {
   if (a.dims[0] !== b.dims[0] || a.dims[1] !== b.dims[1] || a.dims[2] !== b.dims[2]) return false;
@@ -17,7 +22,7 @@ export function resampleNearest<T extends VoxelArray>(src: T, srcGrid: Volume, t
   if (sameGrid(srcGrid, target)) return src;
   const [sx, sy, sz] = srcGrid.dims;
   const [nx, ny, nz] = target.dims;
-  const T = multiply(srcGrid.inverse, target.affine);
+  const T = gridToGrid(target, srcGrid);
   const ai = T[0], bi = T[4], ci = T[8];
   const out = new (src.constructor as new (n: number) => T)(nx * ny * nz);
   for (let k = 0; k < nz; k++) {

@@ -1,4 +1,5 @@
 import { columnNorms, invertAffine, type Mat4, type Vec3 } from '../geometry/mat4.js';
+import { cross, norm } from '../geometry/vec3.js';
 
 /** Voxel storage types the reader accepts (NIfTI datatype names). */
 export type Datatype = 'uint8' | 'int8' | 'int16' | 'uint16' | 'int32' | 'uint32' | 'float32' | 'float64';
@@ -68,8 +69,8 @@ export function axialAxis(affine: Mat4): 0 | 1 | 2 {
   let bestCos = -1;
   for (const axis of [0, 1, 2] as const) {
     const [a, b] = [0, 1, 2].filter((c) => c !== axis).map(col);
-    const n = [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
-    const cos = Math.abs(n[2]) / Math.hypot(n[0], n[1], n[2]);
+    const n = cross(a, b);
+    const cos = Math.abs(n[2]) / norm(n);
     if (cos > bestCos + 1e-12) { bestCos = cos; best = axis; }
   }
   return best;

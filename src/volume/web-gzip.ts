@@ -1,4 +1,4 @@
-import type { Inflate } from './nifti-read.js';
+import { inflateCapacity, type Inflate } from './nifti-read.js';
 
 /**
  * Gzip through the web-standard CompressionStream/DecompressionStream, available in browsers,
@@ -18,8 +18,7 @@ export const webInflate: Inflate = async (gz, maxOutputBytes) => {
   writer.write(plainBuffer(gz)).catch(() => undefined);
   writer.close().catch(() => undefined);
   const reader = stream.readable.getReader();
-  // Deflate expands at most about 1032:1, so a tiny file cannot make us reserve a huge buffer.
-  const cap = Math.max(0, Math.min(maxOutputBytes, gz.length * 1032 + 1024));
+  const cap = inflateCapacity(gz, maxOutputBytes);
   let out = new Uint8Array(cap);
   let n = 0;
   for (;;) {

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { buildSegmentMap } from '../../src/segments/build.js';
+import { importSegmentMap } from '../../src/segments/import.js';
+import { countLabelValues } from '../../src/segments/label-counts.js';
 import { defaultScheme } from '../../src/segments/scheme.js';
 import { liverVolumeMl, segmentVolumes } from '../../src/segments/volumes.js';
 import { makeVolume } from '../../src/volume/volume.js';
@@ -78,5 +80,20 @@ describe('segment volumes from an imported label volume', () => {
       { segment: 'VIII', volumeMl: 0.024 },
     ]);
     expect(liverVolumeMl(map)).toBeCloseTo(0.056, 12);
+  });
+});
+
+describe('label counts a map carries', () => {
+  it('are those a fresh count gives, for a built map and an imported one', () => {
+    const c = CASES[2];
+    const affine = gridAffine(c.R, c.spacing, c.dims, LIVER.centre);
+    for (const splitIV of [false, true]) {
+      const { map } = buildSegmentMap(liverVolume(c.dims, affine), phantomLandmarks(), { splitIV });
+      const fresh = countLabelValues(map.labels);
+      expect(map.labelCounts).toEqual(fresh);
+      const imported = importSegmentMap(map.labels, 'default', 'segments.nii').map;
+      expect(imported.labelCounts).toEqual(fresh);
+      expect(segmentVolumes(imported)).toEqual(segmentVolumes({ labels: imported.labels, scheme: imported.scheme }));
+    }
   });
 });

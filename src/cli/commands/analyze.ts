@@ -1,6 +1,7 @@
 import { CAUTION } from '../../caution.js';
 import type { Vec3 } from '../../geometry/mat4.js';
 import { parseMarks } from '../../lesions/marks.js';
+import { roundTo } from '../../rounding.js';
 import { buildSegmentMap } from '../../segments/build.js';
 import { importSegmentMap } from '../../segments/import.js';
 import { parseLandmarks } from '../../segments/landmarks.js';
@@ -78,15 +79,9 @@ async function builtMap(liverFile: string, landmarksFile: string, warnings: stri
 }
 
 // Printed precision: well below what a scan resolves, well above float noise.
-const mm = (x: number) => round(x, 2);
-const ml = (x: number) => round(x, 3);
+const mm = (x: number) => roundTo(x, 2);
+const ml = (x: number) => roundTo(x, 3);
 const point = (p: Vec3) => [mm(p[0]), mm(p[1]), mm(p[2])];
-
-function round(x: number, digits: number): number {
-  const f = 10 ** digits;
-  const y = Math.round(x * f) / f;
-  return Object.is(y, -0) ? 0 : y;
-}
 
 /** The analyze document of the contracts: its fields first, in its order, then the extras. */
 function forJson(a: VisitAnalysis) {
@@ -100,7 +95,7 @@ function forJson(a: VisitAnalysis) {
 
 function lesionJson(l: LesionResult) {
   const fractions: Record<string, number> = {};
-  for (const [s, f] of Object.entries(l.segmentFractions)) fractions[s] = round(f as number, 4);
+  for (const [s, f] of Object.entries(l.segmentFractions)) fractions[s] = roundTo(f as number, 4);
   return {
     id: l.id,
     centroidMm: point(l.centroidMm),
@@ -114,7 +109,7 @@ function lesionJson(l: LesionResult) {
     marginAlert: l.marginAlert,
     source: l.source,
     max3dMm: l.max3dMm === null ? null : mm(l.max3dMm),
-    meanValue: l.meanValue === null ? null : round(l.meanValue, 2),
+    meanValue: l.meanValue === null ? null : roundTo(l.meanValue, 2),
     longestAxialEndpointsMm: l.longestAxialEndpointsMm === null ? null : l.longestAxialEndpointsMm.map(point),
     voxelCount: l.voxelCount,
     segmentWarning: l.segmentWarning,

@@ -7,7 +7,7 @@ import type { Command } from '../commands.js';
 import { loadVolume } from '../node-io.js';
 
 /** Smallest and largest physical value (after scl_slope/scl_inter), ignoring NaN; null when all are NaN. */
-export function valueRange(v: Volume): { min: number | null; max: number | null } {
+function valueRange(v: Volume): { min: number | null; max: number | null } {
   const d = v.data;
   let lo = Infinity;
   let hi = -Infinity;

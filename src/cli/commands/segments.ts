@@ -1,3 +1,5 @@
+import { CAUTION } from '../../caution.js';
+import { roundTo } from '../../rounding.js';
 import { buildSegmentMap } from '../../segments/build.js';
 import { parseLandmarks } from '../../segments/landmarks.js';
 import { landmarkQc, parseReferenceSets, type LandmarkQc } from '../../segments/qc.js';
@@ -6,16 +8,14 @@ import { UsageError, optionalOption, parseArgs, requireOption } from '../args.js
 import type { Command } from '../commands.js';
 import { loadVolume, readTextFile, saveVolume } from '../node-io.js';
 
-const round = (x: number, digits: number) => Number(x.toFixed(digits));
-
 /** QC numbers for output: correlations to 6 decimals, distances to 0.01 mm. */
 function tidyQc(qc: LandmarkQc) {
   return {
     ...qc,
-    correlation: round(qc.correlation, 6),
-    maxChangeMm: round(qc.maxChangeMm, 2),
-    correlationWithout: qc.correlationWithout === null ? null : round(qc.correlationWithout, 6),
-    correlationWithoutEach: Object.fromEntries(Object.entries(qc.correlationWithoutEach).map(([k, v]) => [k, round(v, 6)])),
+    correlation: roundTo(qc.correlation, 6),
+    maxChangeMm: roundTo(qc.maxChangeMm, 2),
+    correlationWithout: qc.correlationWithout === null ? null : roundTo(qc.correlationWithout, 6),
+    correlationWithoutEach: Object.fromEntries(Object.entries(qc.correlationWithoutEach).map(([k, v]) => [k, roundTo(v, 6)])),
   };
 }
 
@@ -48,8 +48,8 @@ export const segments: Command = {
 
     const qc = reference ? tidyQc(landmarkQc(landmarks, [], reference)) : null;
     const warnings = [...liver.warnings, ...(caudate?.warnings ?? []), ...built.warnings];
-    const volumes = segmentVolumes(built.map).map((v) => ({ segment: v.segment, volumeMl: round(v.volumeMl, 3) }));
-    const liverMl = round(liverVolumeMl(built.map), 3);
+    const volumes = segmentVolumes(built.map).map((v) => ({ segment: v.segment, volumeMl: roundTo(v.volumeMl, 3) }));
+    const liverMl = roundTo(liverVolumeMl(built.map), 3);
 
     if (json) {
       process.stdout.write(`${JSON.stringify({ segments: volumes, liverVolumeMl: liverMl, qc, warnings })}\n`);
@@ -68,7 +68,7 @@ export const segments: Command = {
           : '  no landmark stands out',
       );
     } else lines.push('landmark QC: not run (give --reference FILE with reference configurations)');
-    lines.push('', 'Research and decision-support tool, not a medical device: segment assignments must be checked by a qualified reader.');
+    lines.push('', CAUTION);
     process.stdout.write(`${lines.join('\n')}\n`);
     for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
   },

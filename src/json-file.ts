@@ -1,0 +1,33 @@
+import { badFile, type FalciformError } from './errors.js';
+
+/**
+ * The small JSON files a reader hands in (landmark sets, schemes, marks, reference sets): parsed
+ * with an error that names the file, and wrong values described in a message without writing
+ * them out.
+ */
+
+export function parseJsonFile(
+  text: string,
+  file: string,
+  fail: (file: string, problem: string) => FalciformError = badFile,
+): unknown {
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    throw fail(file, `not valid JSON (${(e as Error).message})`);
+  }
+}
+
+export function isJsonObject(x: unknown): x is Record<string, unknown> {
+  return typeof x === 'object' && x !== null && !Array.isArray(x);
+}
+
+/**
+ * A wrong value as a message shows it. Lists and objects are named, not written out: JSON.stringify
+ * recurses, so a value nested a few thousand deep (which JSON.parse accepts) overflowed the stack.
+ */
+export function describeJsonValue(x: unknown): string {
+  if (Array.isArray(x)) return 'a list';
+  if (typeof x === 'object' && x !== null) return 'an object';
+  return JSON.stringify(x) ?? String(x);
+}
