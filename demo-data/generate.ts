@@ -7,7 +7,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { multiply, transformPoint, type Vec3 } from '../src/geometry/mat4.js';
+import { invertAffine, multiply, transformPoint, type Vec3 } from '../src/geometry/mat4.js';
 import { buildSegmentMap } from '../src/segments/build.js';
 import type { LandmarkSet } from '../src/segments/landmarks.js';
 import { landmarkPlanes, signedDistance } from '../src/segments/planes.js';
@@ -55,17 +55,6 @@ function bodyToWorld(m: DemoVisit['motion']): number[] {
   return r;
 }
 
-function invertRigid(m: number[]): number[] {
-  const rt = [m[0], m[4], m[8], m[1], m[5], m[9], m[2], m[6], m[10]];
-  const t = [m[3], m[7], m[11]];
-  return [
-    rt[0], rt[1], rt[2], -(rt[0] * t[0] + rt[1] * t[1] + rt[2] * t[2]),
-    rt[3], rt[4], rt[5], -(rt[3] * t[0] + rt[4] * t[1] + rt[5] * t[2]),
-    rt[6], rt[7], rt[8], -(rt[6] * t[0] + rt[7] * t[1] + rt[8] * t[2]),
-    0, 0, 0, 1,
-  ];
-}
-
 /** The scanner grid: centred on the body, optionally stored right-to-left and tilted about x. */
 function scannerAffine(p: DemoPatient): number[] {
   const [nx, ny, nz] = DIMS[p.id];
@@ -110,7 +99,7 @@ async function writeVisit(p: DemoPatient, vi: number, outDir: string, random: ()
   const [nx, ny, nz] = dims;
   const affine = scannerAffine(p);
   const toWorld = bodyToWorld(visit.motion);
-  const toBody = multiply(invertRigid(toWorld), affine); // voxel → body
+  const toBody = multiply(invertAffine(toWorld), affine); // voxel → body
   const noise = gaussian(random);
   const n = nx * ny * nz;
   const scan = new Int16Array(n);
