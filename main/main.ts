@@ -1,7 +1,7 @@
 import { readFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { app, BrowserWindow, dialog, ipcMain, protocol, session, type IpcMainInvokeEvent } from 'electron';
+import { app, BrowserWindow, dialog, ipcMain, protocol, session, type FileFilter, type IpcMainInvokeEvent } from 'electron';
 import {
   CHANNELS, MAX_OPEN_BYTES, openFilesRequest, parseRequest, printToPdfRequest, saveFileRequest,
 } from './bridge-api.js';
@@ -38,6 +38,14 @@ function windowOf(event: IpcMainInvokeEvent): BrowserWindow {
   return win;
 }
 
+/** Asks where to save, then writes there whole; a cancelled dialog saves nothing. */
+async function saveAs(win: BrowserWindow, options: { defaultPath: string; filters?: FileFilter[] }, bytes: Uint8Array): Promise<{ saved: boolean }> {
+  const target = await dialog.showSaveDialog(win, options);
+  if (target.canceled || !target.filePath) return { saved: false };
+  await writeFileAtomic(target.filePath, bytes);
+  return { saved: true };
+}
+
 function registerBridge(): void {
   ipcMain.handle(CHANNELS.openFiles, async (event, raw) => {
     const win = windowOf(event);
@@ -50,22 +58,13 @@ function registerBridge(): void {
   ipcMain.handle(CHANNELS.saveFile, async (event, raw) => {
     const win = windowOf(event);
     const req = parseRequest(saveFileRequest, raw);
-    const target = await dialog.showSaveDialog(win, { defaultPath: req.suggestedName, filters: req.filters });
-    if (target.canceled || !target.filePath) return { saved: false };
-    await writeFileAtomic(target.filePath, req.bytes);
-    return { saved: true };
+    return saveAs(win, { defaultPath: req.suggestedName, filters: req.filters }, req.bytes);
   });
   ipcMain.handle(CHANNELS.printToPdf, async (event, raw) => {
     const win = windowOf(event);
     const req = parseRequest(printToPdfRequest, raw);
     const pdf = await win.webContents.printToPDF({ pageSize: req.pageSize, printBackground: true });
-    const target = await dialog.showSaveDialog(win, {
-      defaultPath: req.suggestedName,
-      filters: [{ name: 'PDF', extensions: ['pdf'] }],
-    });
-    if (target.canceled || !target.filePath) return { saved: false };
-    await writeFileAtomic(target.filePath, pdf);
-    return { saved: true };
+    return saveAs(win, { defaultPath: req.suggestedName, filters: [{ name: 'PDF', extensions: ['pdf'] }] }, pdf);
   });
 }
 

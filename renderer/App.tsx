@@ -1,5 +1,6 @@
 import { Caution } from './components/Caution';
-import { go, useRoute } from './navigation';
+import { RouteLink } from './components/RouteLink';
+import { useRoute } from './navigation';
 import { PatientList } from './screens/PatientList';
 import { PatientWorkspace } from './screens/PatientWorkspace';
 import { VERSION } from '../src/version';
@@ -11,7 +12,7 @@ export function App() {
     <div className="app">
       <header className="app-header">
         <h1 className="brand">
-          <a href="#/" onClick={(e) => { e.preventDefault(); go({ screen: 'patients' }); }}>Falciform</a>
+          <RouteLink to={{ screen: 'patients' }}>Falciform</RouteLink>
         </h1>
         <span className="tagline">Liver lesions by Couinaud segment, visit after visit</span>
         <span className="version">v{VERSION}</span>

@@ -1,12 +1,12 @@
 import { createContext, useContext } from 'react';
 import type { PatientRecord } from '../../src/model/records';
+import type { JobState } from '../workers/job-client';
 import type { PatientAnalysis } from './types';
-import type { AnalysisState } from './usePatientAnalysis';
 
 /** What every patient screen shares: the stored patient, the latest analysis, and a way to rerun it. */
 export interface PatientContextValue {
   patient: PatientRecord;
-  state: AnalysisState;
+  state: JobState;
   /** The latest complete analysis (kept on screen while a rerun is under way). */
   analysis: PatientAnalysis | null;
   /** Call after an edit that changes the analysis (marks, landmarks, links, targets, margin). */

@@ -5,6 +5,8 @@ import type { PatientFiles } from '../../src/patient/load.js';
 import { readNifti } from '../../src/volume/nifti-read.js';
 import { webInflate } from '../../src/volume/web-gzip.js';
 import type { FalciformDb } from '../store/db.js';
+import { compact } from '../store/record-helpers.js';
+import { patientTreatments } from '../store/treatment-edits.js';
 
 /**
  * A stored patient seen as a study manifest whose paths are "visit/role" keys, with a file source
@@ -13,42 +15,43 @@ import type { FalciformDb } from '../store/db.js';
 export async function storedPatient(db: FalciformDb, patientId: string): Promise<{ manifest: Manifest; files: PatientFiles }> {
   const patient = await db.patients.get(patientId);
   if (!patient) throw new Error(`patient ${patientId} is not in the store`);
-  const visits = (await db.visits.where('patientId').equals(patientId).toArray()).sort((a, b) => a.date.localeCompare(b.date));
-  const treatments = await db.treatments.where('patientId').equals(patientId).toArray();
-  const path = (visitId: string, what: VolumeRole | InputKind) => `${visitId}/${what}`;
-  const manifest: Manifest = {
-    patient: {
+  const visits = await db.visits.where('patientId').equals(patientId).sortBy('date');
+  const treatments = await patientTreatments(db, patientId);
+  const manifest: Manifest = compact({
+    patient: compact({
       id: patient.id,
-      ...(patient.birthYear !== undefined ? { birthYear: patient.birthYear } : {}),
-      ...(patient.heightCm !== undefined ? { heightCm: patient.heightCm } : {}),
-      ...(patient.weightKg !== undefined ? { weightKg: patient.weightKg } : {}),
-      ...(patient.sex !== undefined ? { sex: patient.sex } : {}),
-      ...(patient.demo ? { demo: true } : {}),
-    },
+      birthYear: patient.birthYear,
+      heightCm: patient.heightCm,
+      weightKg: patient.weightKg,
+      sex: patient.sex,
+      demo: patient.demo || undefined,
+    }),
     marginMm: patient.marginMm,
-    ...(patient.criteria ? { criteria: patient.criteria } : {}),
-    ...(patient.targets?.length ? { targets: patient.targets } : {}),
-    ...(patient.resection ? { resection: patient.resection } : {}),
+    criteria: patient.criteria,
+    targets: patient.targets?.length ? patient.targets : undefined,
+    resection: patient.resection,
     treatments: treatments.map(({ date, kind, label }) => ({ date, kind, label })),
     visits: visits.map((v) => {
-      const has = (r: VolumeRole) => v.volumes.includes(r);
-      const hasInput = (k: InputKind) => v.inputs.includes(k);
-      return {
+      // A stored file's manifest path; none where the visit has no such file.
+      const volume = (r: VolumeRole) => (v.volumes.includes(r) ? `${v.id}/${r}` : undefined);
+      const input = (k: InputKind) => (v.inputs.includes(k) ? `${v.id}/${k}` : undefined);
+      return compact({
         id: v.id,
         date: v.date,
-        scan: path(v.id, 'scan'),
-        ...(has('segments') ? { segments: path(v.id, 'segments'), scheme: hasInput('scheme') ? path(v.id, 'scheme') : 'default' } : {}),
-        ...(has('liver') ? { liver: path(v.id, 'liver') } : {}),
-        ...(hasInput('landmarks') ? { landmarks: path(v.id, 'landmarks') } : {}),
-        ...(has('caudate') ? { caudate: path(v.id, 'caudate') } : {}),
-        ...(v.splitIV ? { splitIV: true } : {}),
-        ...(has('lesions') ? { lesions: path(v.id, 'lesions') } : {}),
-        ...(hasInput('marks') ? { marks: path(v.id, 'marks') } : {}),
-        ...(has('viable') ? { viable: path(v.id, 'viable') } : {}),
-        ...(v.note ? { note: v.note } : {}),
-      };
+        scan: `${v.id}/scan`,
+        segments: volume('segments'),
+        scheme: volume('segments') && (input('scheme') ?? 'default'),
+        liver: volume('liver'),
+        landmarks: input('landmarks'),
+        caudate: volume('caudate'),
+        splitIV: v.splitIV || undefined,
+        lesions: volume('lesions'),
+        marks: input('marks'),
+        viable: volume('viable'),
+        note: v.note || undefined,
+      });
     }),
-  };
+  });
   const split = (p: string) => {
     const at = p.indexOf('/');
     return [p.slice(0, at), p.slice(at + 1)] as const;

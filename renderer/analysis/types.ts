@@ -22,8 +22,3 @@ export interface PatientAnalysis {
 }
 
 export type AnalysisRequest = { type: 'analyse'; patientId: string };
-
-export type AnalysisMessage =
-  | { type: 'progress'; done: number; total: number; step: string }
-  | { type: 'result'; result: PatientAnalysis }
-  | { type: 'error'; message: string };

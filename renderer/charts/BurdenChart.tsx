@@ -1,10 +1,10 @@
-import { CartesianGrid, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
-import type { ScatterShapeProps } from 'recharts/types/util/ScatterUtils';
+import { Scatter, ScatterChart } from 'recharts';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
 import type { SegmentName } from '../../src/segments/segment-map';
-import { valueScale, type BurdenPoint, type BurdenSeries, type TreatmentMarker } from './chart-data';
-import { CHART_MARGIN, ChartFrame, fmtMl, fmtMm, GRID, hovered, lineCasing, TipBox, timeAxisProps, treatmentLines, valueAxisLabel } from './chart-parts';
+import { valueScale, type BurdenPoint, type BurdenSeries } from './chart-data';
+import { CHART_MARGIN, ChartFrame, courseAxes, lineCasing, pointShape, pointTooltip, TipBox, type CourseTime } from './chart-parts';
 import { SegmentLegend } from './SegmentLegend';
+import { fmtMl, fmtMm } from '../format';
 
 type Metric = 'sumMm' | 'volumeMl';
 
@@ -13,35 +13,28 @@ const METRIC = {
   volumeMl: { id: 'burden-ml', title: 'Tumour volume per segment', axis: 'Tumour volume (mL)', attr: 'data-ml' },
 } as const;
 
-function burdenDot(metric: Metric) {
-  function BurdenDot(props: ScatterShapeProps) {
-    const p = props.payload as BurdenPoint;
-    if (props.cx === undefined || props.cy === undefined) return <g />;
-    return (
-      <circle
-        cx={props.cx}
-        cy={props.cy}
-        r={4}
-        fill={segmentColour(p.segment)}
-        stroke={needsOutline(p.segment) ? OUTLINE_INK : '#fff'}
-        strokeWidth={1}
-        className="chart-point"
-        data-chart={METRIC[metric].id}
-        data-segment={p.segment ?? 'outside'}
-        data-visit={p.visit}
-        {...{ [METRIC[metric].attr]: p[metric] }}
-      />
-    );
-  }
-  return BurdenDot;
-}
+const burdenDot = (metric: Metric) => pointShape<BurdenPoint>((p, cx, cy) => (
+  <circle
+    cx={cx}
+    cy={cy}
+    r={4}
+    fill={segmentColour(p.segment)}
+    stroke={needsOutline(p.segment) ? OUTLINE_INK : '#fff'}
+    strokeWidth={1}
+    className="chart-point"
+    data-chart={METRIC[metric].id}
+    data-segment={p.segment ?? 'outside'}
+    data-visit={p.visit}
+    {...{ [METRIC[metric].attr]: p[metric] }}
+  />
+));
 
 /**
  * One segment's tumour burden over time: the sum of its lesions' diameters, or their volume. Every
  * segment that ever held a lesion has a point at every visit (0 when empty); a volume is missing
  * where a lesion was measured by a manual mark, which has no volume.
  */
-export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; domain: [number, number]; ticks: number[]; treatments: TreatmentMarker[] }) {
+export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; time: CourseTime }) {
   const m = METRIC[props.metric];
   const metric = props.metric;
   // A line only joins consecutive visits with a value: a missing volume is a gap, never bridged.
@@ -80,10 +73,7 @@ export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; dom
       }
     >
       <ScatterChart responsive style={{ width: '100%', height: 250 }} margin={CHART_MARGIN}>
-        <CartesianGrid stroke={GRID} />
-        <XAxis {...timeAxisProps(props.domain, props.ticks)} />
-        <YAxis type="number" dataKey={metric} domain={[0, y.max]} ticks={y.ticks} tick={{ fontSize: 11 }} label={valueAxisLabel(m.axis)} width={62} />
-        {treatmentLines(props.treatments)}
+        {courseAxes(props.time, { dataKey: metric, scale: y, label: m.axis })}
         {runs.filter((r) => needsOutline(r.segment)).map((r) => lineCasing(r.key, r.points, metric, 2))}
         {runs.map((s) => (
           <Scatter
@@ -96,20 +86,12 @@ export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; dom
             isAnimationActive={false}
           />
         ))}
-        <Tooltip
-          cursor={false}
-          isAnimationActive={false}
-          content={(tp) => {
-            const p = hovered<BurdenPoint>(tp);
-            if (!p) return null;
-            return (
-              <TipBox
-                title={`Segment ${p.segment ?? 'outside'} · ${p.date} (${p.visit})`}
-                lines={[['Lesions', String(p.count)], ['Sum of diameters', fmtMm(p.sumMm)], ['Volume', fmtMl(p.volumeMl)]]}
-              />
-            );
-          }}
-        />
+        {pointTooltip<BurdenPoint>((p) => (
+          <TipBox
+            title={`Segment ${p.segment ?? 'outside'} · ${p.date} (${p.visit})`}
+            lines={[['Lesions', String(p.count)], ['Sum of diameters', fmtMm(p.sumMm)], ['Volume', fmtMl(p.volumeMl)]]}
+          />
+        ))}
       </ScatterChart>
     </ChartFrame>
   );

@@ -1,40 +1,32 @@
-import { CartesianGrid, LabelList, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
-import type { ScatterShapeProps } from 'recharts/types/util/ScatterUtils';
+import { LabelList, Scatter, ScatterChart } from 'recharts';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
-import { valueScale, type LesionPoint, type LesionSeries, type TreatmentMarker } from './chart-data';
-import { CHART_MARGIN, ChartFrame, fmtMm, GRID, hovered, INK, lineCasing, TipBox, timeAxisProps, treatmentLines, valueAxisLabel } from './chart-parts';
+import { valueScale, type LesionPoint, type LesionSeries } from './chart-data';
+import { CHART_MARGIN, ChartFrame, courseAxes, INK, lineCasing, pointShape, pointTooltip, TipBox, type CourseTime } from './chart-parts';
 import { SegmentLegend } from './SegmentLegend';
+import { fmtMm } from '../format';
 
 const STATUS_WORDS: Record<string, string> = { present: 'present', gone: 'gone', merged: 'merged into another lesion', 'not-evaluable': 'outside the scanned field' };
 
-/** A point of a lesion track: filled for a RECIST target, open for the others. */
-function lesionDot(series: LesionSeries) {
-  function LesionDot(props: ScatterShapeProps) {
-    const p = props.payload as LesionPoint;
-    if (props.cx === undefined || props.cy === undefined) return <g />;
-    const colour = segmentColour(p.segment);
-    return (
-      <circle
-        cx={props.cx}
-        cy={props.cy}
-        r={series.target ? 5 : 3.5}
-        fill={colour}
-        stroke={needsOutline(p.segment) ? OUTLINE_INK : '#fff'}
-        strokeWidth={1.2}
-        className="chart-point"
-        data-chart="lesion"
-        data-track={p.track}
-        data-visit={p.visit}
-        data-mm={p.mm}
-        data-segment={p.segment ?? 'outside'}
-      />
-    );
-  }
-  return LesionDot;
-}
+/** A point of a lesion track: larger for a RECIST target. */
+const lesionDot = (series: LesionSeries) => pointShape<LesionPoint>((p, cx, cy) => (
+  <circle
+    cx={cx}
+    cy={cy}
+    r={series.target ? 5 : 3.5}
+    fill={segmentColour(p.segment)}
+    stroke={needsOutline(p.segment) ? OUTLINE_INK : '#fff'}
+    strokeWidth={1.2}
+    className="chart-point"
+    data-chart="lesion"
+    data-track={p.track}
+    data-visit={p.visit}
+    data-mm={p.mm}
+    data-segment={p.segment ?? 'outside'}
+  />
+));
 
 /** Longest axial diameter of every lesion track over time, coloured by segment. */
-export function LesionChart(props: { series: LesionSeries[]; domain: [number, number]; ticks: number[]; treatments: TreatmentMarker[] }) {
+export function LesionChart(props: { series: LesionSeries[]; time: CourseTime }) {
   const { series } = props;
   const y = valueScale(series.flatMap((s) => s.points.map((p) => p.mm)));
   const lastOf = (s: LesionSeries) => s.points[s.points.length - 1];
@@ -59,10 +51,7 @@ export function LesionChart(props: { series: LesionSeries[]; domain: [number, nu
       }
     >
       <ScatterChart responsive style={{ width: '100%', height: 300 }} margin={CHART_MARGIN}>
-        <CartesianGrid stroke={GRID} />
-        <XAxis {...timeAxisProps(props.domain, props.ticks)} />
-        <YAxis type="number" dataKey="mm" domain={[0, y.max]} ticks={y.ticks} tick={{ fontSize: 11 }} label={valueAxisLabel('Longest axial diameter (mm)')} width={62} />
-        {treatmentLines(props.treatments)}
+        {courseAxes(props.time, { dataKey: 'mm', scale: y, label: 'Longest axial diameter (mm)' })}
         {series.filter((s) => needsOutline(s.segment)).map((s) => lineCasing(s.track, s.points, 'mm', width(s)))}
         {series.map((s) => {
           const colour = segmentColour(s.segment);
@@ -82,15 +71,9 @@ export function LesionChart(props: { series: LesionSeries[]; domain: [number, nu
             </Scatter>
           );
         })}
-        <Tooltip
-          cursor={false}
-          isAnimationActive={false}
-          content={(tp) => {
-            const p = hovered<LesionPoint>(tp);
-            if (!p) return null;
-            return <TipBox title={`${p.track} · ${p.date} (${p.visit})`} lines={[['Longest axial', fmtMm(p.mm)], ['Segment', p.segment ?? 'outside'], ['Status', STATUS_WORDS[p.status] ?? p.status]]} />;
-          }}
-        />
+        {pointTooltip<LesionPoint>((p) => (
+          <TipBox title={`${p.track} · ${p.date} (${p.visit})`} lines={[['Longest axial', fmtMm(p.mm)], ['Segment', p.segment ?? 'outside'], ['Status', STATUS_WORDS[p.status] ?? p.status]]} />
+        ))}
       </ScatterChart>
     </ChartFrame>
   );

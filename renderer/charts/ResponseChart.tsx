@@ -1,37 +1,33 @@
-import { CartesianGrid, LabelList, ReferenceDot, ReferenceLine, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
-import type { ScatterShapeProps } from 'recharts/types/util/ScatterUtils';
+import { LabelList, ReferenceDot, ReferenceLine, Scatter, ScatterChart } from 'recharts';
 import { PD_INCREASE, PD_MIN_INCREASE_MM, PR_DECREASE, round1 } from '../../src/followup/recist';
-import { valueScale, type ResponseChartData, type ResponsePoint, type TreatmentMarker } from './chart-data';
-import { CHART_MARGIN, ChartFrame, fmtMm, fmtPct, GRID, hovered, INK, MUTED, TipBox, timeAxisProps, treatmentLines, valueAxisLabel } from './chart-parts';
+import { fmtMm, fmtPct } from '../format';
+import { valueScale, type ResponseChartData, type ResponsePoint } from './chart-data';
+import { CHART_MARGIN, ChartFrame, courseAxes, INK, MUTED, pointShape, pointTooltip, TipBox, type CourseTime } from './chart-parts';
 
 const SUM_INK = '#0b4f6c';
 
-function ResponseDot(props: ScatterShapeProps) {
-  const p = props.payload as ResponsePoint;
-  if (props.cx === undefined || props.cy === undefined) return <g />;
-  return (
-    <circle
-      cx={props.cx}
-      cy={props.cy}
-      r={5}
-      fill={p.complete ? SUM_INK : '#fff'}
-      stroke={SUM_INK}
-      strokeWidth={1.8}
-      className="chart-point"
-      data-chart="response"
-      data-visit={p.visit}
-      data-sum={p.sumMm}
-      data-category={p.category ?? 'baseline'}
-    />
-  );
-}
+const ResponseDot = pointShape<ResponsePoint>((p, cx, cy) => (
+  <circle
+    cx={cx}
+    cy={cy}
+    r={5}
+    fill={p.complete ? SUM_INK : '#fff'}
+    stroke={SUM_INK}
+    strokeWidth={1.8}
+    className="chart-point"
+    data-chart="response"
+    data-visit={p.visit}
+    data-sum={p.sumMm}
+    data-category={p.category ?? 'baseline'}
+  />
+));
 
 /**
  * The sum of target diameters at each visit with its response category, the baseline sum as a line,
  * the nadir ringed, and where the next visit would cross into PR or PD (RECIST 1.1: a 30% decrease
  * from baseline; a 20% and at least 5 mm increase over the nadir).
  */
-export function ResponseChart(props: { data: ResponseChartData; domain: [number, number]; ticks: number[]; treatments: TreatmentMarker[] }) {
+export function ResponseChart(props: { data: ResponseChartData; time: CourseTime }) {
   const { data } = props;
   const prLine = round1(data.baselineMm * (1 - PR_DECREASE));
   const nadirMm = data.nadir?.sumMm ?? data.baselineMm;
@@ -60,10 +56,7 @@ export function ResponseChart(props: { data: ResponseChartData; domain: [number,
       }
     >
       <ScatterChart responsive style={{ width: '100%', height: 280 }} margin={CHART_MARGIN}>
-        <CartesianGrid stroke={GRID} />
-        <XAxis {...timeAxisProps(props.domain, props.ticks)} />
-        <YAxis type="number" dataKey="sumMm" domain={[0, y.max]} ticks={y.ticks} tick={{ fontSize: 11 }} label={valueAxisLabel('Sum of diameters (mm)')} width={62} />
-        {treatmentLines(props.treatments)}
+        {courseAxes(props.time, { dataKey: 'sumMm', scale: y, label: 'Sum of diameters (mm)' })}
         <ReferenceLine y={data.baselineMm} stroke={MUTED} strokeDasharray="6 4" label={{ value: `baseline ${data.baselineMm} mm`, position: 'insideBottomRight', fontSize: 10, fill: MUTED }} />
         {data.points.length > 1 && data.baselineMm > 0 && (
           <ReferenceLine y={prLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: `PR threshold, −30% from baseline: ${prLine} mm`, position: 'insideBottomLeft', fontSize: 10, fill: MUTED }} />
@@ -77,26 +70,20 @@ export function ResponseChart(props: { data: ResponseChartData; domain: [number,
         <Scatter name="sum" data={points} dataKey="sumMm" line={{ stroke: SUM_INK, strokeWidth: 2 }} shape={ResponseDot} isAnimationActive={false}>
           <LabelList dataKey="tag" position="top" offset={10} fontSize={11} fontWeight={600} fill={INK} />
         </Scatter>
-        <Tooltip
-          cursor={false}
-          isAnimationActive={false}
-          content={(tp) => {
-            const p = hovered<ResponsePoint>(tp);
-            if (!p) return null;
-            const first = p.visit === data.points[0]?.visit;
-            return (
-              <TipBox
-                title={`${p.date} (${p.visit})`}
-                lines={[
-                  ['Sum of diameters', `${fmtMm(p.sumMm)}${p.complete ? '' : ' (incomplete)'}`],
-                  ['vs baseline', first ? 'baseline' : fmtPct(p.changeFromBaselinePct)],
-                  ['vs nadir', first ? '—' : `${fmtPct(p.changeFromNadirPct)} (nadir ${fmtMm(p.nadirSumMm)})`],
-                  ['Response', first ? 'baseline' : (p.category ?? '—')],
-                ]}
-              />
-            );
-          }}
-        />
+        {pointTooltip<ResponsePoint>((p) => {
+          const first = p.visit === data.points[0]?.visit;
+          return (
+            <TipBox
+              title={`${p.date} (${p.visit})`}
+              lines={[
+                ['Sum of diameters', `${fmtMm(p.sumMm)}${p.complete ? '' : ' (incomplete)'}`],
+                ['vs baseline', first ? 'baseline' : fmtPct(p.changeFromBaselinePct)],
+                ['vs nadir', first ? '—' : `${fmtPct(p.changeFromNadirPct)} (nadir ${fmtMm(p.nadirSumMm)})`],
+                ['Response', first ? 'baseline' : (p.category ?? '—')],
+              ]}
+            />
+          );
+        })}
       </ScatterChart>
     </ChartFrame>
   );

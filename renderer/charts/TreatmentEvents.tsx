@@ -1,6 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import type { TreatmentRecord } from '../../src/model/records';
-import { isFalciformError } from '../../src/errors';
+import { errorText } from '../error-text';
 import { appDb } from '../store/db';
 import { addTreatment, deleteTreatment, TREATMENT_KINDS } from '../store/treatment-edits';
 import { treatmentWord } from './chart-parts';
@@ -19,7 +19,7 @@ export function TreatmentEvents(props: { patientId: string; treatments: Treatmen
       props.onChange();
       return true;
     } catch (e) {
-      setProblem(isFalciformError(e) || e instanceof Error ? e.message : String(e));
+      setProblem(errorText(e));
       return false;
     }
   };

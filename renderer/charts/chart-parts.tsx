@@ -1,11 +1,13 @@
-import type { ReactNode } from 'react';
-import { ReferenceLine, Scatter } from 'recharts';
+import type { ReactElement, ReactNode } from 'react';
+import { CartesianGrid, ReferenceLine, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
+import type { ScatterShapeProps } from 'recharts/types/util/ScatterUtils';
+import { INK } from '../../src/report/palette';
 import { isoDate, type TreatmentMarker } from './chart-data';
 import { OUTLINE_INK } from './segment-style';
 
 /** Pieces every course chart shares: the time axis, value-axis labels, treatment lines, the frame. */
 
-export const INK = '#1d2327';
+export { INK };
 export const MUTED = '#5b6770';
 export const GRID = '#e3e6e2';
 export const TREATMENT_INK = '#6a5d7b';
@@ -13,7 +15,7 @@ export const TREATMENT_INK = '#6a5d7b';
 export const CHART_MARGIN = { top: 24, right: 28, bottom: 30, left: 18 };
 
 /** Props for a numeric time axis whose ticks are the visit dates, written as ISO dates. */
-export function timeAxisProps(domain: [number, number], ticks: number[]) {
+function timeAxisProps(domain: [number, number], ticks: number[]) {
   return {
     type: 'number' as const,
     dataKey: 't',
@@ -29,7 +31,7 @@ export function timeAxisProps(domain: [number, number], ticks: number[]) {
 }
 
 /** A value axis's label, written along the axis with its unit. */
-export function valueAxisLabel(text: string) {
+function valueAxisLabel(text: string) {
   return { value: text, angle: -90, position: 'insideLeft' as const, offset: 4, style: { textAnchor: 'middle' as const }, fontSize: 11, fill: MUTED };
 }
 
@@ -50,7 +52,7 @@ export function treatmentWord(kind: string): string {
  * Treatment events as vertical lines. Returned as elements (not a component) so the chart sees them
  * as its own children.
  */
-export function treatmentLines(markers: readonly TreatmentMarker[]): ReactNode[] {
+function treatmentLines(markers: readonly TreatmentMarker[]): ReactNode[] {
   return markers.map((m, n) => (
     <ReferenceLine
       key={`treatment-${n}`}
@@ -63,6 +65,57 @@ export function treatmentLines(markers: readonly TreatmentMarker[]): ReactNode[]
       label={{ value: `▾ ${m.label}`, position: 'insideTopLeft', fontSize: 10, fill: TREATMENT_INK, offset: 4 }}
     />
   ));
+}
+
+/** The time axis every course chart shares: its extent, the visit dates as ticks, the treatments on it. */
+export interface CourseTime {
+  domain: [number, number];
+  ticks: number[];
+  treatments: TreatmentMarker[];
+}
+
+/**
+ * What every course chart draws under its points: the grid, the visit-date axis, a value axis from 0
+ * with its label, and the treatment lines. Elements, not a component, so the chart sees its own children.
+ */
+export function courseAxes(time: CourseTime, value: { dataKey: string; scale: { max: number; ticks: number[] }; label: string }): ReactNode[] {
+  return [
+    <CartesianGrid key="grid" stroke={GRID} />,
+    <XAxis key="time" {...timeAxisProps(time.domain, time.ticks)} />,
+    <YAxis
+      key="value"
+      type="number"
+      dataKey={value.dataKey}
+      domain={[0, value.scale.max]}
+      ticks={value.scale.ticks}
+      tick={{ fontSize: 11 }}
+      label={valueAxisLabel(value.label)}
+      width={62}
+    />,
+    ...treatmentLines(time.treatments),
+  ];
+}
+
+/** A point's shape drawn from its data; nothing where the chart has not placed it. */
+export function pointShape<T>(draw: (point: T, cx: number, cy: number) => ReactElement) {
+  return function Point(props: ScatterShapeProps) {
+    if (props.cx === undefined || props.cy === undefined) return <g />;
+    return draw(props.payload as T, props.cx, props.cy);
+  };
+}
+
+/** The tooltip of the hovered point (Recharts hands it every point under the pointer; the first is shown). */
+export function pointTooltip<T>(tip: (point: T) => ReactNode) {
+  return (
+    <Tooltip
+      cursor={false}
+      isAnimationActive={false}
+      content={(props) => {
+        const p = props.active ? (props.payload?.[0]?.payload as T | undefined) : undefined;
+        return p ? tip(p) : null;
+      }}
+    />
+  );
 }
 
 /** One chart with its title, a line on how to read it, and the exact values beneath. */
@@ -96,19 +149,6 @@ export function TipBox({ title, lines }: { title: string; lines: [string, string
     </div>
   );
 }
-
-export const fmtMm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x} mm`);
-export const fmtMl = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x} mL`);
-export const fmtPct = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x > 0 ? '+' : ''}${x}%`);
-
-/** Recharts hands a tooltip the hovered points; the first one's data is what we show. */
-export function hovered<T>(props: { active?: boolean; payload?: readonly { payload?: unknown }[] }): T | null {
-  if (!props.active || !props.payload?.length) return null;
-  return (props.payload[0].payload as T | undefined) ?? null;
-}
-
-/** A length measured on a visit (unrounded in the analysis), as the tables show it: one decimal. */
-export const oneDecimal = (x: number | null | undefined) => (x === null || x === undefined ? '—' : x.toFixed(1));
 
 const NoShape = () => <g />;
 

@@ -1,5 +1,5 @@
 import type { SegmentName } from '../../src/segments/segment-map.js';
-import { segmentColour as paletteColour } from '../../src/report/palette.js';
+import { segmentColour } from '../../src/report/palette.js';
 
 /**
  * How a segment is drawn in the charts: the core palette's one segment colour (grey outside every segment),
@@ -9,12 +9,10 @@ import { segmentColour as paletteColour } from '../../src/report/palette.js';
 
 export const OUTLINE_INK = '#3b4348';
 
-export function segmentColour(segment: SegmentName | null | undefined): string {
-  return paletteColour(segment ?? null);
-}
+export { segmentColour };
 
 /** SVG stroke-dasharray for the segment's lines, where its colour alone does not tell it apart. */
-export function segmentDash(segment: SegmentName | null | undefined): string | undefined {
+export function segmentDash(segment: SegmentName | null): string | undefined {
   return segment === 'IVb' ? '6 3' : undefined;
 }
 
@@ -28,6 +26,6 @@ export function luminance(hex: string): number {
 }
 
 /** A colour with under 1.5:1 contrast against white needs an outline to be seen. */
-export function needsOutline(segment: SegmentName | null | undefined): boolean {
+export function needsOutline(segment: SegmentName | null): boolean {
   return (1.05 / (luminance(segmentColour(segment)) + 0.05)) < 1.5;
 }

@@ -1,7 +1,7 @@
-import type { AnalysisState } from '../analysis/usePatientAnalysis';
+import type { JobState } from '../workers/job-client';
 
 /** The analysis progress or failure, in one line above the patient's screens. */
-export function AnalysisStatus({ state }: { state: AnalysisState }) {
+export function AnalysisStatus({ state }: { state: JobState }) {
   if (state.status === 'ready') return null;
   if (state.status === 'failed') {
     return (

@@ -1,5 +1,6 @@
 import { useMemo, useState } from 'react';
 import type { OpenedFile } from '../../main/bridge-api';
+import { errorText } from '../error-text';
 import { guessLooseFiles } from '../store/loose-files';
 import type { LooseVisitDetails } from '../store/import';
 import { ConfirmDialog } from './ConfirmDialog';
@@ -24,7 +25,7 @@ export function LooseFilesDialog({ files, onImport, onCancel }: Props) {
     try {
       return { ok: true as const, ...guessLooseFiles(files) };
     } catch (e) {
-      return { ok: false as const, message: e instanceof Error ? e.message : String(e) };
+      return { ok: false as const, message: errorText(e) };
     }
   }, [files]);
   return (

@@ -1,21 +1,32 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState, type ChangeEvent, type ReactNode } from 'react';
 import type { OpenedFile } from '../../main/bridge-api';
 import { isFalciformError } from '../../src/errors';
+import { errorText } from '../error-text';
 import { ConfirmDialog } from '../components/ConfirmDialog';
 import { DropZone } from '../components/DropZone';
 import { LooseFilesDialog } from '../components/LooseFilesDialog';
+import { RouteLink } from '../components/RouteLink';
 import { desktopBridge, filesFromInput, saveBytes } from '../platform/bridge';
-import { BACKUP_EXTENSION, backupFileName, createBackup, readBackup, restoreBackup, restoreConflicts, type BackupContents, type BackupScope } from '../store/backup';
+import { BACKUP_EXTENSION, backupFileName, createBackup, readBackup, restoreBackup, restoreConflicts, type BackupScope } from '../store/backup';
 import { appDb, askPersistentStorage } from '../store/db';
 import { commitImport, findManifests, type LooseVisitDetails } from '../store/import';
 import { readImportInWorker } from '../store/import-client';
 import { deletePatient, listPatients, type PatientSummary } from '../store/patients';
 import { offerDemoPatients, removeDemoPatients } from '../store/demo';
-import { go } from '../navigation';
 
 type Notice =
   | { kind: 'done'; text: string; warnings: string[] }
   | { kind: 'error'; action: string; file: string | null; problem: string };
+
+/** A destructive store action waiting for the user to confirm it; `work` runs as `action`. */
+interface Question {
+  title: string;
+  confirmLabel: string;
+  testId: string;
+  body: ReactNode;
+  action: string;
+  work: () => Promise<string>;
+}
 
 const IMAGE_FILTERS = [
   { name: 'NIfTI images and JSON inputs', extensions: ['nii.gz', 'nii', 'json'] },
@@ -28,10 +39,8 @@ export function PatientList() {
   const [query, setQuery] = useState('');
   const [busy, setBusy] = useState<string | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
-  const [toDelete, setToDelete] = useState<PatientSummary | null>(null);
-  const [confirmDemo, setConfirmDemo] = useState(false);
+  const [question, setQuestion] = useState<Question | null>(null);
   const [loose, setLoose] = useState<OpenedFile[] | null>(null);
-  const [pendingRestore, setPendingRestore] = useState<{ contents: BackupContents; file: string; conflicts: string[] } | null>(null);
   const [persistent, setPersistent] = useState<boolean | null>(null);
   const folderInput = useRef<HTMLInputElement>(null);
   const filesInput = useRef<HTMLInputElement>(null);
@@ -41,7 +50,7 @@ export function PatientList() {
   useEffect(() => {
     void offerDemoPatients(db)
       .then((ids) => { if (ids.length) setNotice({ kind: 'done', text: `Demo patients added: ${ids.join(', ')} (invented, for trying the app; remove them any time).`, warnings: [] }); })
-      .catch((e: unknown) => setNotice({ kind: 'error', action: 'Demo import', file: null, problem: e instanceof Error ? e.message : String(e) }))
+      .catch((e: unknown) => setNotice({ kind: 'error', action: 'Demo import', file: null, problem: errorText(e) }))
       .finally(() => void refresh());
     void askPersistentStorage().then(setPersistent);
     // React has no prop for folder picking; the attribute is standard in Chromium.
@@ -57,7 +66,7 @@ export function PatientList() {
       if (done !== null) setNotice({ kind: 'done', ...(typeof done === 'string' ? { text: done, warnings: [] } : done) });
     } catch (e) {
       if (isFalciformError(e)) setNotice({ kind: 'error', action, file: e.file, problem: e.problem });
-      else setNotice({ kind: 'error', action, file: null, problem: e instanceof Error ? e.message : String(e) });
+      else setNotice({ kind: 'error', action, file: null, problem: errorText(e) });
     } finally {
       setBusy(null);
       await refresh();
@@ -114,7 +123,19 @@ export function PatientList() {
       const contents = await readBackup(file.bytes, file.relativePath);
       const conflicts = await restoreConflicts(db, contents);
       if (conflicts.length > 0) {
-        setPendingRestore({ contents, file: file.relativePath, conflicts });
+        setQuestion({
+          title: 'Replace stored patients?',
+          confirmLabel: 'Replace with the backup',
+          testId: 'restore-dialog',
+          body: (
+            <p>
+              {file.relativePath} holds {conflicts.join(', ')}, already stored here. Replacing removes the stored copy,
+              edits made since the backup included, and puts the backup&apos;s copy in its place.
+            </p>
+          ),
+          action: 'Restore',
+          work: async () => restoredText(await restoreBackup(db, contents, { file: file.relativePath, replace: true })),
+        });
         return null;
       }
       return restoredText(await restoreBackup(db, contents, { file: file.relativePath }));
@@ -125,6 +146,34 @@ export function PatientList() {
     const [file] = await bridge.openFiles({ folder: false, multiple: false, title: 'Choose a Falciform backup', filters: [{ name: 'Falciform backup', extensions: [BACKUP_EXTENSION] }] });
     if (file) restoreFrom(file);
   };
+
+  const confirmRemoveDemo = () => setQuestion({
+    title: 'Remove the demo patients?',
+    confirmLabel: 'Remove demo patients',
+    testId: 'remove-demo-dialog',
+    body: <p>The invented demo patients and everything stored for them are deleted from this computer. They are not offered again.</p>,
+    action: 'Remove demo patients',
+    work: async () => `Removed ${(await removeDemoPatients(db)).join(', ')}.`,
+  });
+  const confirmDelete = (r: PatientSummary) => setQuestion({
+    title: `Delete patient ${r.patient.id}?`,
+    confirmLabel: 'Delete patient',
+    testId: 'delete-dialog',
+    body: (
+      <>
+        <p>
+          This removes {r.visitCount} visit{r.visitCount === 1 ? '' : 's'}, their scans, segment maps, lesions, lesion
+          tracks and the patient&apos;s edit history ({formatBytes(r.storedBytes)}) from this computer. It cannot be undone.
+        </p>
+        <p>Back the patient up first if the data may be needed again.</p>
+      </>
+    ),
+    action: 'Delete',
+    work: async () => {
+      await deletePatient(db, r.patient.id);
+      return `Patient ${r.patient.id} and all its data were deleted from this computer.`;
+    },
+  });
 
   const shown = useMemo(() => {
     const q = query.trim().toLowerCase();
@@ -159,7 +208,7 @@ export function PatientList() {
             Restore…
           </button>
           {rows?.some((r) => r.patient.demo) && (
-            <button type="button" className="quiet-danger" onClick={() => setConfirmDemo(true)} disabled={busy !== null} data-testid="remove-demo">
+            <button type="button" className="quiet-danger" onClick={confirmRemoveDemo} disabled={busy !== null} data-testid="remove-demo">
               Remove demo patients…
             </button>
           )}
@@ -210,14 +259,9 @@ export function PatientList() {
               {shown!.map((r) => (
                 <tr key={r.patient.id} data-testid="patient-row" data-patient={r.patient.id}>
                   <th scope="row">
-                    <a
-                      className="patient-id"
-                      href={`#/patient/${encodeURIComponent(r.patient.id)}`}
-                      onClick={(e) => { e.preventDefault(); go({ screen: 'patient', patientId: r.patient.id }); }}
-                      data-testid="open-patient"
-                    >
+                    <RouteLink className="patient-id" to={{ screen: 'patient', patientId: r.patient.id }} data-testid="open-patient">
                       {r.patient.id}
-                    </a>
+                    </RouteLink>
                     {r.patient.label && <span className="patient-label">{r.patient.label}</span>}
                     {r.patient.demo && <span className="badge" data-testid="demo-badge">demo — invented</span>}
                   </th>
@@ -230,7 +274,7 @@ export function PatientList() {
                     <button type="button" onClick={() => backUp({ patientIds: [r.patient.id] })} disabled={busy !== null} data-testid="backup-one">
                       Back up
                     </button>
-                    <button type="button" className="quiet-danger" onClick={() => setToDelete(r)} disabled={busy !== null} data-testid="delete-patient">
+                    <button type="button" className="quiet-danger" onClick={() => confirmDelete(r)} disabled={busy !== null} data-testid="delete-patient">
                       Delete…
                     </button>
                   </td>
@@ -250,42 +294,20 @@ export function PatientList() {
         {persistent === false && ' The browser may clear it when the disk runs low: keep backups.'}
       </p>
 
-      {confirmDemo && (
+      {question && (
         <ConfirmDialog
-          title="Remove the demo patients?"
-          confirmLabel="Remove demo patients"
+          key={question.testId}
+          title={question.title}
+          confirmLabel={question.confirmLabel}
           danger
-          testId="remove-demo-dialog"
-          onCancel={() => setConfirmDemo(false)}
+          testId={question.testId}
+          onCancel={() => setQuestion(null)}
           onConfirm={() => {
-            setConfirmDemo(false);
-            void run('Remove demo patients', async () => `Removed ${(await removeDemoPatients(db)).join(', ')}.`);
+            setQuestion(null);
+            void run(question.action, question.work);
           }}
         >
-          <p>The invented demo patients and everything stored for them are deleted from this computer. They are not offered again.</p>
-        </ConfirmDialog>
-      )}
-      {toDelete && (
-        <ConfirmDialog
-          title={`Delete patient ${toDelete.patient.id}?`}
-          confirmLabel="Delete patient"
-          danger
-          testId="delete-dialog"
-          onCancel={() => setToDelete(null)}
-          onConfirm={() => {
-            const id = toDelete.patient.id;
-            setToDelete(null);
-            void run('Delete', async () => {
-              await deletePatient(db, id);
-              return `Patient ${id} and all its data were deleted from this computer.`;
-            });
-          }}
-        >
-          <p>
-            This removes {toDelete.visitCount} visit{toDelete.visitCount === 1 ? '' : 's'}, their scans, segment maps, lesions, lesion
-            tracks and the patient&apos;s edit history ({formatBytes(toDelete.storedBytes)}) from this computer. It cannot be undone.
-          </p>
-          <p>Back the patient up first if the data may be needed again.</p>
+          {question.body}
         </ConfirmDialog>
       )}
 
@@ -299,26 +321,6 @@ export function PatientList() {
             importFiles(files, details);
           }}
         />
-      )}
-
-      {pendingRestore && (
-        <ConfirmDialog
-          title="Replace stored patients?"
-          confirmLabel="Replace with the backup"
-          danger
-          testId="restore-dialog"
-          onCancel={() => setPendingRestore(null)}
-          onConfirm={() => {
-            const { contents, file } = pendingRestore;
-            setPendingRestore(null);
-            void run('Restore', async () => restoredText(await restoreBackup(db, contents, { file, replace: true })));
-          }}
-        >
-          <p>
-            {pendingRestore.file} holds {pendingRestore.conflicts.join(', ')}, already stored here. Replacing removes the stored copy,
-            edits made since the backup included, and puts the backup&apos;s copy in its place.
-          </p>
-        </ConfirmDialog>
       )}
     </section>
   );

@@ -1,5 +1,6 @@
 import { usePatient } from '../analysis/PatientContext';
 import { AnalysisStatus } from '../components/AnalysisStatus';
+import { RouteLink } from '../components/RouteLink';
 import { go } from '../navigation';
 import { PATIENT_TABS } from './patient/tabs';
 
@@ -10,7 +11,7 @@ export function PatientPage({ tab }: { tab?: string }) {
   return (
     <div className="patient-page" data-testid="patient-page">
       <nav className="crumbs">
-        <a href="#/" onClick={(e) => { e.preventDefault(); go({ screen: 'patients' }); }}>All patients</a>
+        <RouteLink to={{ screen: 'patients' }}>All patients</RouteLink>
       </nav>
       <header className="patient-header">
         <h2 data-testid="patient-title">{patient.id}</h2>

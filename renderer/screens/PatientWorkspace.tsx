@@ -1,10 +1,11 @@
-import { useCallback, useEffect, useMemo, useState } from 'react';
-import type { PatientRecord } from '../../src/model/records';
+import { useCallback, useMemo, useState } from 'react';
 import { PatientContext } from '../analysis/PatientContext';
 import { usePatientAnalysis } from '../analysis/usePatientAnalysis';
-import { go, type Route } from '../navigation';
+import { RouteLink } from '../components/RouteLink';
+import type { Route } from '../navigation';
 import { appDb } from '../store/db';
 import { getPatient } from '../store/patients';
+import { useStored } from '../store/use-stored';
 import { PatientPage } from './PatientPage';
 import { VisitView } from './VisitView';
 
@@ -14,14 +15,11 @@ import { VisitView } from './VisitView';
  */
 export function PatientWorkspace({ route }: { route: Exclude<Route, { screen: 'patients' }> }) {
   const patientId = route.patientId;
-  const [patient, setPatient] = useState<PatientRecord | null | undefined>(undefined);
   const [revision, setRevision] = useState(0);
   const [reloads, setReloads] = useState(0);
   const { state, last } = usePatientAnalysis(patientId, revision);
-
-  useEffect(() => {
-    void getPatient(appDb(), patientId).then((p) => setPatient(p ?? null));
-  }, [patientId, reloads, revision]);
+  // undefined while opening, null when no such patient is stored.
+  const patient = useStored(async () => (await getPatient(appDb(), patientId)) ?? null, [patientId, reloads, revision]);
 
   const reanalyse = useCallback(() => setRevision((r) => r + 1), []);
   const reload = useCallback(() => setReloads((r) => r + 1), []);
@@ -34,7 +32,7 @@ export function PatientWorkspace({ route }: { route: Exclude<Route, { screen: 'p
   if (patient === null || !value) {
     return (
       <p className="notice error" role="alert">
-        Patient {patientId} is not stored on this computer. <a href="#/" onClick={(e) => { e.preventDefault(); go({ screen: 'patients' }); }}>Back to the patient list</a>
+        Patient {patientId} is not stored on this computer. <RouteLink to={{ screen: 'patients' }}>Back to the patient list</RouteLink>
       </p>
     );
   }

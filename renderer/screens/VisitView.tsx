@@ -2,14 +2,17 @@ import { useCallback, useEffect, useMemo, useState } from 'react';
 import { isFalciformError } from '../../src/errors';
 import type { Vec3 } from '../../src/geometry/mat4';
 import type { WindowPreset } from '../../src/model/records';
+import { roundTo } from '../../src/rounding';
 import { LANDMARK_NAMES, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks';
 import { usePatient } from '../analysis/PatientContext';
 import { AnalysisStatus } from '../components/AnalysisStatus';
 import { ConfirmDialog } from '../components/ConfirmDialog';
+import { RouteLink } from '../components/RouteLink';
 import { go } from '../navigation';
 import { appDb } from '../store/db';
 import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark } from '../store/edits';
 import { getSetting } from '../store/patients';
+import { useStored } from '../store/use-stored';
 import { markFromCaliper, nextMarkId } from '../viewer/caliper';
 import { LandmarkPanel, type LandmarkMode } from '../viewer/LandmarkPanel';
 import { landmarkProblems, landmarkQcNotes, LANDMARK_LABELS, type LandmarkNotes } from '../viewer/landmark-qc';
@@ -75,7 +78,6 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const [inputRevision, setInputRevision] = useState(0);
   const { state: loading, volumes } = useVisitVolumes(patient.id, visitId, volumeRevision);
   const inputs = useVisitInputs(patient.id, visitId, inputRevision);
-  const [presets, setPresets] = useState<readonly WindowPreset[]>(CT_PRESETS);
   const [slices, setSlices] = useState<Slices | null>(null);
   const [tool, setTool] = useState<Tool>('look');
   const [selected, setSelected] = useState<string | null>(lesionId ?? null);
@@ -96,9 +98,8 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const layout = layouts?.[prefs.plane] ?? null;
   const marks = useMemo(() => inputs?.marks ?? [], [inputs]);
 
-  useEffect(() => {
-    void getSetting(db, 'windowPresets').then((p) => { if (p.length) setPresets(p); });
-  }, [db]);
+  const storedPresets = useStored(() => getSetting(db, 'windowPresets'), [db]);
+  const presets: readonly WindowPreset[] = storedPresets?.length ? storedPresets : CT_PRESETS;
 
   const jumpTo = useCallback((p: Vec3) => {
     if (!layouts || !volumes) return;
@@ -209,7 +210,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const setShortAxis = (id: string, shortAxisMm: number) => {
     const m = marks.find((k) => k.id === id);
     if (!m) return;
-    void edit(async () => { await saveMark(db, patient.id, visitId, { ...m, shortAxisMm: Math.round(shortAxisMm * 10) / 10 }, 'update'); return `Short axis of ${id} saved.`; });
+    void edit(async () => { await saveMark(db, patient.id, visitId, { ...m, shortAxisMm: roundTo(shortAxisMm, 1) }, 'update'); return `Short axis of ${id} saved.`; });
   };
 
   const landmarkMode: LandmarkMode = !record || !record.volumes.includes('segments') ? 'built' : record.volumes.includes('liver') ? 'imported-with-liver' : 'imported';
@@ -258,9 +259,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   return (
     <div className="visit-view" data-testid="visit-view">
       <nav className="crumbs">
-        <a href="#/" onClick={(e) => { e.preventDefault(); go({ screen: 'patients' }); }}>All patients</a>
+        <RouteLink to={{ screen: 'patients' }}>All patients</RouteLink>
         {' › '}
-        <a href="#" onClick={(e) => { e.preventDefault(); go({ screen: 'patient', patientId: patient.id }); }}>{patient.id}</a>
+        <RouteLink to={{ screen: 'patient', patientId: patient.id }}>{patient.id}</RouteLink>
         {' › '}
         <span>visit {visitId}</span>
       </nav>
@@ -298,7 +299,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             canMark={canMark}
             canMoveLandmarks={landmarkMode === 'built' && !!shownLandmarks}
           />
-          {loading.status === 'loading' && (
+          {loading.status === 'running' && (
             <div className="analysis-progress" role="status" data-testid="volumes-progress">
               <progress max={loading.total} value={loading.done} />
               <span>{volumes ? 'Updating the images: ' : ''}{loading.step}… ({loading.done} of {loading.total})</span>

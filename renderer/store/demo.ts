@@ -1,12 +1,9 @@
 import type { OpenedFile } from '../../main/bridge-api';
 import { parseManifest } from '../../src/manifest/manifest';
 import type { FalciformDb } from './db';
-import { commitImport } from './import';
+import { commitImport, filesOfVisit } from './import';
 import { readImportInWorker } from './import-client';
 import { deletePatient, getSetting, setSetting } from './patients';
-
-/** The manifest fields that name files. */
-const FILE_FIELDS = ['scan', 'segments', 'liver', 'landmarks', 'caudate', 'lesions', 'marks', 'viable'] as const;
 
 /**
  * On first start, with an empty store, imports the invented demo patients shipped with the app (built
@@ -28,12 +25,7 @@ export async function offerDemoPatients(db: FalciformDb, base = './demo/'): Prom
     const manifest = parseManifest(manifestText, p.manifest);
     const folder = p.manifest.slice(0, p.manifest.lastIndexOf('/') + 1);
     files.push({ relativePath: p.manifest, bytes: new TextEncoder().encode(manifestText) });
-    const paths = new Set<string>();
-    for (const v of manifest.visits) {
-      for (const f of FILE_FIELDS) if (v[f]) paths.add(v[f]);
-      if (v.scheme && v.scheme !== 'default') paths.add(v.scheme);
-    }
-    for (const path of paths) {
+    for (const path of new Set(manifest.visits.flatMap(filesOfVisit))) {
       const res = await fetch(base + folder + path);
       if (!res.ok) throw new Error(`demo file ${folder}${path} could not be read (${res.status})`);
       files.push({ relativePath: folder + path, bytes: new Uint8Array(await res.arrayBuffer()) });

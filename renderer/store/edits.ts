@@ -1,10 +1,10 @@
 import { badInput } from '../../src/errors.js';
-import type { Vec3 } from '../../src/geometry/mat4.js';
 import { parseMarks, type Mark } from '../../src/lesions/marks.js';
 import {
   INPUT_KINDS, inputKey, volumeKey, type InputKind, type InputRecord, type JsonValue, type VisitRecord,
 } from '../../src/model/records.js';
 import { recordBytes, visitStoredBytes } from '../../src/model/storage-size.js';
+import { roundTo } from '../../src/rounding.js';
 import { checkLandmarks, LANDMARK_NAMES, parseLandmarks, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks.js';
 import { markJson } from '../viewer/caliper.js';
 import type { FalciformDb } from './db.js';
@@ -112,11 +112,9 @@ export async function deleteMark(db: FalciformDb, patientId: string, visitId: st
   });
 }
 
-const rounded = (p: Vec3): [number, number, number] => [p[0], p[1], p[2]].map((x) => Math.round(x * 10) / 10) as [number, number, number];
-
 function landmarksRecord(visit: VisitRecord, fileName: string, file: Record<string, unknown>, set: LandmarkSet): InputRecord {
   const points: Record<string, number[]> = {};
-  for (const name of LANDMARK_NAMES) points[name] = rounded(set.points[name]);
+  for (const name of LANDMARK_NAMES) points[name] = set.points[name].map((x) => roundTo(x, 1));
   return {
     key: inputKey(visit.patientId, visit.id, 'landmarks'),
     patientId: visit.patientId,

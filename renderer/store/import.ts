@@ -299,7 +299,8 @@ async function readVolume(
   return { record, warnings };
 }
 
-function filesOfVisit(v: ManifestVisit): string[] {
+/** The files a manifest visit names, as written in the manifest. */
+export function filesOfVisit(v: ManifestVisit): string[] {
   const paths: (string | undefined)[] = [...VOLUME_ROLES.map((r) => v[r]), v.landmarks, v.marks, v.scheme === 'default' ? undefined : v.scheme];
   return paths.filter((p): p is string => p !== undefined);
 }

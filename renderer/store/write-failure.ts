@@ -1,4 +1,5 @@
 import { badInput, isFalciformError, tooLarge } from '../../src/errors.js';
+import { errorText } from '../error-text.js';
 
 /**
  * Turns a failed write transaction into an error a nurse can act on. IndexedDB reports a full disk
@@ -14,7 +15,7 @@ export function explainWriteFailure(e: unknown, what: string, verb: string): Err
         `(or delete patients you have backed up), then try again`,
     );
   }
-  const why = e instanceof Error ? e.message : String(e);
+  const why = errorText(e);
   return badInput(what, `could not be stored (${why}). Nothing was ${verb}`);
 }
 

@@ -1,4 +1,5 @@
 import { LANDMARK_NAMES, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks';
+import { oneDecimal } from '../format';
 import { LANDMARK_LABELS, type LandmarkNotes } from './landmark-qc';
 
 export type LandmarkMode =
@@ -25,8 +26,6 @@ interface Props {
   busy: boolean;
   status: string | null;
 }
-
-const fmt = (x: number) => x.toFixed(1);
 
 /** The landmark set: each point with its position and the checks that concern it, right beside it. */
 export function LandmarkPanel({ mode, landmarks, unsaved, problems, qc, onShow, onPlace, placing, onRevert, onStartBuilding, busy, status }: Props) {
@@ -90,7 +89,7 @@ export function LandmarkPanel({ mode, landmarks, unsaved, problems, qc, onShow, 
                   </button>
                 </span>
               </div>
-              {p && <div className="coords">{p.map(fmt).join(', ')} mm</div>}
+              {p && <div className="coords">{p.map(oneDecimal).join(', ')} mm</div>}
               {notes.map((n) => <p key={n} className="landmark-note-text" data-testid="landmark-note">{n}</p>)}
             </li>
           );

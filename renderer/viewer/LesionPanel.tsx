@@ -1,10 +1,10 @@
 import { useEffect, useState } from 'react';
+import { distance } from '../../src/geometry/vec3';
 import type { Mark } from '../../src/lesions/marks';
 import type { LesionResult } from '../../src/visit/analyze';
+import { oneDecimal } from '../format';
 import type { DraftCaliper } from './SliceViewer';
 
-const mm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : x.toFixed(1));
-const dist = (d: DraftCaliper) => Math.hypot(d.a[0] - d.b[0], d.a[1] - d.b[1], d.a[2] - d.b[2]);
 
 interface Props {
   lesions: LesionResult[] | null;
@@ -51,10 +51,10 @@ export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId
                   <span className="lesion-source">{l.source === 'mark' ? 'mark' : 'mask'}</span>
                 </th>
                 <td data-testid="lesion-segment">{l.segment ?? 'outside'}{l.segmentWarning ? ' *' : ''}</td>
-                <td className="num">{mm(l.longestAxialMm)}</td>
-                <td className="num">{mm(l.shortAxisMm)}</td>
+                <td className="num">{oneDecimal(l.longestAxialMm)}</td>
+                <td className="num">{oneDecimal(l.shortAxisMm)}</td>
                 <td className={`num${l.marginAlert ? ' alert-cell' : ''}`} data-testid="lesion-margin">
-                  {mm(l.marginMm)}{l.marginAlert ? ` → ${l.nearestOtherSegment}` : ''}
+                  {oneDecimal(l.marginMm)}{l.marginAlert ? ` → ${l.nearestOtherSegment}` : ''}
                 </td>
               </tr>
             ))}
@@ -68,7 +68,7 @@ export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId
 }
 
 function DraftEditor({ draft, id, onSave, onCancel, busy }: { draft: DraftCaliper; id: string; onSave(s: number): void; onCancel(): void; busy: boolean }) {
-  const longest = dist(draft);
+  const longest = distance(draft.a, draft.b);
   const [typed, setTyped] = useState('');
   useEffect(() => setTyped(draft.shortMm === null ? '' : Math.min(draft.shortMm, longest).toFixed(1)), [draft.shortMm, longest]);
   const value = Number(typed);

@@ -1,4 +1,5 @@
 import type { SegmentName } from '../../src/segments/segment-map';
+import { oneDecimal } from '../format';
 import { legendSegments, SEGMENT_COLOURS } from './palette';
 import type { VisitVolumes } from './volume-messages';
 
@@ -39,7 +40,7 @@ export function SegmentPanel({ volumes, segmentVolumes, liverVolumeMl, show, onS
           {legendSegments(split).map((s) => (
             <tr key={s} data-testid="segment-volume" data-segment={s}>
               <th scope="row"><span className={`swatch${s === 'IVb' ? ' striped' : ''}`} style={{ backgroundColor: SEGMENT_COLOURS[s] }} aria-hidden="true" />{s}</th>
-              <td className="num">{ml.has(s) ? ml.get(s)!.toFixed(1) : '—'}</td>
+              <td className="num">{oneDecimal(ml.get(s))}</td>
             </tr>
           ))}
           {liverVolumeMl !== null && (

@@ -1,12 +1,13 @@
 import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type PointerEvent as ReactPointerEvent, type ReactNode } from 'react';
 import type { Vec3 } from '../../src/geometry/mat4';
+import { distance } from '../../src/geometry/vec3';
 import type { Mark } from '../../src/lesions/marks';
 import { LANDMARK_NAMES, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks';
 import { shortAxisEnds, shortAxisOfDrag } from './caliper';
 import { composeSlice, lesionOutlines, type LesionOutline } from './compose';
 import { LANDMARK_LABELS } from './landmark-qc';
 import { segmentOfCode } from './palette';
-import { displayMmOfWorld, extractSlice, sliceStepTowardsPlus, voxelIndexOfDisplay, worldOfDisplayMm, type SliceLayout } from './slice';
+import { displayMmOfWorld, extractSlice, PLANE_LABELS, sliceStepTowardsPlus, voxelIndexOfDisplay, worldOfDisplayMm, type SliceLayout } from './slice';
 import { fitView, toDisplayMm, toScreen, zoomAt, type View } from './view-transform';
 import type { VisitVolumes } from './volume-messages';
 import { dragWindow, type WindowLevel } from './window-level';
@@ -49,8 +50,6 @@ const ORIENTATION: Record<SliceLayout['plane'], { left: string; right: string; t
   coronal: { left: 'R', right: 'L', top: 'S', bottom: 'I' },
   sagittal: { left: 'A', right: 'P', top: 'S', bottom: 'I' },
 };
-
-const PLANE_NAME: Record<SliceLayout['plane'], string> = { axial: 'Axial', coronal: 'Coronal', sagittal: 'Sagittal' };
 
 const fmt = (x: number) => (Math.abs(x) < 0.05 ? '0.0' : x.toFixed(1));
 
@@ -233,7 +232,7 @@ export function SliceViewer(props: Props) {
           if (ends) line(ends[0], ends[1], 1.5, [4, 3]);
         }
         const b = screenOf(caliper.b);
-        if (b) label(`${dist(caliper.a, caliper.b).toFixed(1)} mm`, b.x + 8, b.y + 4, true);
+        if (b) label(`${distance(caliper.a, caliper.b).toFixed(1)} mm`, b.x + 8, b.y + 4, true);
       }
     }
   });
@@ -357,7 +356,7 @@ export function SliceViewer(props: Props) {
       props.onSelect(markAt(x, y) ?? lesionAt(x, y));
     } else if (d.kind === 'caliper') {
       if (!d.short) {
-        if (dist(d.from, d.to) < 1) {
+        if (distance(d.from, d.to) < 1) {
           props.onHint('Drag across the lesion along its longest diameter.');
           return;
         }
@@ -450,7 +449,7 @@ export function SliceViewer(props: Props) {
         ref={box}
         className={`slice-box tool-${props.placing ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
         tabIndex={0}
-        aria-label={`${PLANE_NAME[layout.plane]} image, slice ${slice + 1} of ${layout.depth}. Arrow keys or wheel change the slice.`}
+        aria-label={`${PLANE_LABELS[layout.plane]} image, slice ${slice + 1} of ${layout.depth}. Arrow keys or wheel change the slice.`}
         data-testid="slice-viewer"
         data-plane={layout.plane}
         data-slice={slice}
@@ -470,7 +469,7 @@ export function SliceViewer(props: Props) {
         <span className="orient orient-top" aria-hidden="true">{o.top}</span>
         <span className="orient orient-bottom" aria-hidden="true">{o.bottom}</span>
         <span className="slice-label" data-testid="slice-label">
-          {PLANE_NAME[layout.plane]} · slice {slice + 1} of {layout.depth} · {axisName} {fmt(sliceMm)} mm
+          {PLANE_LABELS[layout.plane]} · slice {slice + 1} of {layout.depth} · {axisName} {fmt(sliceMm)} mm
         </span>
         <div className="zoom-controls" role="group" aria-label="Zoom">
           <button type="button" onClick={() => zoomBy(1 / 1.25)} aria-label="Zoom out" data-testid="zoom-out">−</button>
@@ -497,8 +496,4 @@ export function SliceViewer(props: Props) {
 
 function mid(a: Vec3, b: Vec3): Vec3 {
   return [(a[0] + b[0]) / 2, (a[1] + b[1]) / 2, (a[2] + b[2]) / 2];
-}
-
-function dist(a: Vec3, b: Vec3): number {
-  return Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
 }

@@ -1,5 +1,5 @@
 import type { WindowPreset } from '../../src/model/records';
-import { PLANES, type Plane } from './slice';
+import { PLANE_LABELS, PLANES, type Plane } from './slice';
 import type { Tool } from './SliceViewer';
 import type { WindowLevel } from './window-level';
 
@@ -16,8 +16,6 @@ interface Props {
   canMoveLandmarks: boolean;
 }
 
-const PLANE_LABEL: Record<Plane, string> = { axial: 'Axial', coronal: 'Coronal', sagittal: 'Sagittal' };
-
 /** Plane, window and what a drag on the image does. */
 export function ViewerToolbar({ plane, onPlane, presets, auto, window, onWindow, tool, onTool, canMark, canMoveLandmarks }: Props) {
   const active = (wl: WindowLevel) => window !== null && window.centre === wl.centre && window.width === wl.width;
@@ -25,7 +23,7 @@ export function ViewerToolbar({ plane, onPlane, presets, auto, window, onWindow,
     <div className="viewer-toolbar" role="toolbar" aria-label="Viewer">
       <div className="segmented" role="group" aria-label="Plane">
         {PLANES.map((p) => (
-          <button key={p} type="button" aria-pressed={plane === p} onClick={() => onPlane(p)} data-testid={`plane-${p}`}>{PLANE_LABEL[p]}</button>
+          <button key={p} type="button" aria-pressed={plane === p} onClick={() => onPlane(p)} data-testid={`plane-${p}`}>{PLANE_LABELS[p]}</button>
         ))}
       </div>
       <div className="segmented" role="group" aria-label="Window">

@@ -1,9 +1,10 @@
 import type { Vec3 } from '../../src/geometry/mat4.js';
+import { distance } from '../../src/geometry/vec3.js';
 import type { Mark } from '../../src/lesions/marks.js';
+import { roundTo } from '../../src/rounding.js';
 
 /** Calipers are stored to 0.1 mm: finer than any scan's voxels, and the file stays readable. */
-const tenth = (x: number) => Math.round(x * 10) / 10;
-const dist = (a: Vec3, b: Vec3) => Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
+const tenth = (x: number) => roundTo(x, 1);
 
 /**
  * A manual mark from a caliper across the lesion's longest axial diameter: centre halfway between
@@ -13,7 +14,7 @@ const dist = (a: Vec3, b: Vec3) => Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b
 export function markFromCaliper(id: string, a: Vec3, b: Vec3, shortAxisMm: number, viableAxialMm?: number): Mark {
   const ea: Vec3 = [tenth(a[0]), tenth(a[1]), tenth(a[2])];
   const eb: Vec3 = [tenth(b[0]), tenth(b[1]), tenth(b[2])];
-  const longestAxialMm = tenth(dist(ea, eb));
+  const longestAxialMm = tenth(distance(ea, eb));
   const mark: Mark = {
     id,
     centreMm: [tenth((ea[0] + eb[0]) / 2), tenth((ea[1] + eb[1]) / 2), tenth((ea[2] + eb[2]) / 2)],

@@ -1,8 +1,9 @@
-import type { Mat4, Vec3 } from '../../src/geometry/mat4.js';
+import { transformPoint, type Mat4, type Vec3 } from '../../src/geometry/mat4.js';
 import { axialAxis } from '../../src/volume/volume.js';
 
 export type Plane = 'axial' | 'coronal' | 'sagittal';
 export const PLANES: readonly Plane[] = ['axial', 'coronal', 'sagittal'];
+export const PLANE_LABELS: Readonly<Record<Plane, string>> = { axial: 'Axial', coronal: 'Coronal', sagittal: 'Sagittal' };
 
 type Axis = 0 | 1 | 2;
 
@@ -122,17 +123,12 @@ export function gridOfDisplay(layout: SliceLayout, col: number, row: number, sli
  * so voxel (col, row) covers [col·colMm, (col+1)·colMm) and its centre sits half a voxel in.
  */
 export function worldOfDisplayMm(layout: SliceLayout, affine: Mat4, xMm: number, yMm: number, slice: number): Vec3 {
-  const g = gridOfDisplay(layout, xMm / layout.colMm - 0.5, yMm / layout.rowMm - 0.5, slice);
-  return [
-    affine[0] * g[0] + affine[1] * g[1] + affine[2] * g[2] + affine[3],
-    affine[4] * g[0] + affine[5] * g[1] + affine[6] * g[2] + affine[7],
-    affine[8] * g[0] + affine[9] * g[1] + affine[10] * g[2] + affine[11],
-  ];
+  return transformPoint(affine, gridOfDisplay(layout, xMm / layout.colMm - 0.5, yMm / layout.rowMm - 0.5, slice));
 }
 
 /** A world point in display mm, with its (fractional) slice index. */
 export function displayMmOfWorld(layout: SliceLayout, inverse: Mat4, p: Vec3): { xMm: number; yMm: number; slice: number } {
-  const g = [0, 1, 2].map((r) => inverse[r * 4] * p[0] + inverse[r * 4 + 1] * p[1] + inverse[r * 4 + 2] * p[2] + inverse[r * 4 + 3]);
+  const g = transformPoint(inverse, p);
   const col = layout.colFlip ? layout.width - 1 - g[layout.colAxis] : g[layout.colAxis];
   const row = layout.rowFlip ? layout.height - 1 - g[layout.rowAxis] : g[layout.rowAxis];
   return { xMm: (col + 0.5) * layout.colMm, yMm: (row + 0.5) * layout.rowMm, slice: g[layout.sliceAxis] };

@@ -1,8 +1,9 @@
-import { useEffect, useState } from 'react';
 import { parseMarks, type Mark } from '../../src/lesions/marks';
 import type { VisitRecord } from '../../src/model/records';
 import { parseLandmarks, type LandmarkSet } from '../../src/segments/landmarks';
+import { errorText } from '../error-text';
 import { appDb } from '../store/db';
+import { useStored } from '../store/use-stored';
 import type { OtherVisitSet } from './landmark-qc';
 
 export interface VisitInputs {
@@ -20,42 +21,38 @@ export interface VisitInputs {
 }
 
 /** The visit's record and small JSON inputs, read from the store again whenever `revision` changes. */
-export function useVisitInputs(patientId: string, visitId: string, revision: number): VisitInputs | null {
-  const [inputs, setInputs] = useState<VisitInputs | null>(null);
-  useEffect(() => {
-    let live = true;
-    void (async () => {
-      const db = appDb();
-      const [visits, all] = await db.transaction('r', db.visits, db.inputs, () => Promise.all([
-        db.visits.where('patientId').equals(patientId).sortBy('date'),
-        db.inputs.where('patientId').equals(patientId).toArray(),
-      ]));
-      const next: VisitInputs = {
-        record: visits.find((v) => v.id === visitId) ?? null,
-        visitIds: visits.map((v) => v.id),
-        marks: null,
-        landmarks: null,
-        otherLandmarks: [],
-        problem: null,
-      };
-      const order = new Map(next.visitIds.map((id, n) => [id, n]));
-      for (const input of all) {
-        const file = `${input.visitId}/${input.fileName}`;
-        try {
-          if (input.visitId === visitId && input.kind === 'marks') next.marks = parseMarks(input.text, file);
-          else if (input.kind === 'landmarks') {
-            const set = parseLandmarks(input.text, file);
-            if (input.visitId === visitId) next.landmarks = set;
-            else next.otherLandmarks.push({ visitId: input.visitId, set });
-          }
-        } catch (e) {
-          if (input.visitId === visitId) next.problem = e instanceof Error ? e.message : String(e);
-        }
+export function useVisitInputs(patientId: string, visitId: string, revision: number): VisitInputs | undefined {
+  return useStored(() => readVisitInputs(patientId, visitId), [patientId, visitId, revision]);
+}
+
+async function readVisitInputs(patientId: string, visitId: string): Promise<VisitInputs> {
+  const db = appDb();
+  const [visits, all] = await db.transaction('r', db.visits, db.inputs, () => Promise.all([
+    db.visits.where('patientId').equals(patientId).sortBy('date'),
+    db.inputs.where('patientId').equals(patientId).toArray(),
+  ]));
+  const next: VisitInputs = {
+    record: visits.find((v) => v.id === visitId) ?? null,
+    visitIds: visits.map((v) => v.id),
+    marks: null,
+    landmarks: null,
+    otherLandmarks: [],
+    problem: null,
+  };
+  const order = new Map(next.visitIds.map((id, n) => [id, n]));
+  for (const input of all) {
+    const file = `${input.visitId}/${input.fileName}`;
+    try {
+      if (input.visitId === visitId && input.kind === 'marks') next.marks = parseMarks(input.text, file);
+      else if (input.kind === 'landmarks') {
+        const set = parseLandmarks(input.text, file);
+        if (input.visitId === visitId) next.landmarks = set;
+        else next.otherLandmarks.push({ visitId: input.visitId, set });
       }
-      next.otherLandmarks.sort((a, b) => (order.get(a.visitId) ?? 0) - (order.get(b.visitId) ?? 0));
-      if (live) setInputs(next);
-    })();
-    return () => { live = false; };
-  }, [patientId, visitId, revision]);
-  return inputs;
+    } catch (e) {
+      if (input.visitId === visitId) next.problem = errorText(e);
+    }
+  }
+  next.otherLandmarks.sort((a, b) => (order.get(a.visitId) ?? 0) - (order.get(b.visitId) ?? 0));
+  return next;
 }

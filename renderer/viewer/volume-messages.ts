@@ -27,8 +27,3 @@ export interface VisitVolumes {
 }
 
 export type VolumesRequest = { type: 'load'; patientId: string; visitId: string };
-
-export type VolumesMessage =
-  | { type: 'progress'; done: number; total: number; step: string }
-  | { type: 'result'; volumes: VisitVolumes }
-  | { type: 'error'; message: string };

@@ -16,10 +16,6 @@ export const CT_PRESETS: readonly WindowPreset[] = DEFAULT_SETTINGS.windowPreset
 /** Narrowest window the controls allow, so a drag never divides by zero. */
 export const MIN_WIDTH = 1;
 
-export function presetLabel(p: WindowPreset): string {
-  return `${p.name} (W ${p.width}, L ${p.centre})`;
-}
-
 /** Grey level 0–255 of one physical value (linear ramp, clipped at both ends). */
 export function grayOf(value: number, wl: WindowLevel): number {
   const width = Math.max(MIN_WIDTH, wl.width);

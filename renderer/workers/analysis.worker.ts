@@ -1,16 +1,15 @@
 /// <reference lib="webworker" />
 // Loads a stored patient and runs the core's visit analysis and follow-up off the window's thread.
-import { isFalciformError } from '../../src/errors';
 import { runFollowup } from '../../src/followup/followup';
 import type { Override } from '../../src/followup/tracks';
 import { loadPatientFrom } from '../../src/patient/load';
-import type { AnalysisMessage, AnalysisRequest, PatientAnalysis } from '../analysis/types';
+import type { AnalysisRequest, PatientAnalysis } from '../analysis/types';
 import { storedPatient } from '../analysis/store-source';
 import { appDb } from '../store/db';
+import { patientOverrides } from '../store/track-edits';
+import { serveJob, type Progress } from './job';
 
-const post = (m: AnalysisMessage) => (self as unknown as DedicatedWorkerGlobalScope).postMessage(m);
-
-async function analyse(patientId: string): Promise<PatientAnalysis> {
+async function analyse({ patientId }: AnalysisRequest, progress: Progress): Promise<PatientAnalysis> {
   const db = appDb();
   const { manifest, files } = await storedPatient(db, patientId);
   const total = manifest.visits.length + 1;
@@ -18,13 +17,13 @@ async function analyse(patientId: string): Promise<PatientAnalysis> {
   // Visits one at a time, reporting each, so a long series shows progress.
   const visits = [];
   for (const v of manifest.visits) {
-    post({ type: 'progress', done, total, step: `visit ${v.id} (${v.date})` });
+    progress(done, total, `visit ${v.id} (${v.date})`);
     const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files);
     visits.push(one.visits[0]);
     done++;
   }
-  post({ type: 'progress', done, total, step: 'follow-up across visits' });
-  const overrides: Override[] = (await db.overrides.where('patientId').equals(patientId).sortBy('at')).map((o) =>
+  progress(done, total, 'follow-up across visits');
+  const overrides: Override[] = (await patientOverrides(db, patientId)).map((o) =>
     o.kind === 'link' ? { kind: 'link', visit: o.visit, lesion: o.lesion, track: o.track ?? '' }
       : o.kind === 'unlink' ? { kind: 'unlink', visit: o.visit, lesion: o.lesion, ...(o.track ? { track: o.track } : {}) }
         : { kind: 'new', visit: o.visit, lesion: o.lesion },
@@ -42,10 +41,4 @@ async function analyse(patientId: string): Promise<PatientAnalysis> {
   };
 }
 
-self.onmessage = async (e: MessageEvent<AnalysisRequest>) => {
-  try {
-    post({ type: 'result', result: await analyse(e.data.patientId) });
-  } catch (err) {
-    post({ type: 'error', message: isFalciformError(err) || err instanceof Error ? err.message : String(err) });
-  }
-};
+serveJob(analyse);

@@ -2,7 +2,7 @@
 // Decodes one visit's volumes for the viewer off the window's thread: the scan, its segment map (imported,
 // or built from liver mask and landmarks with the core's own functions, as the analysis does) and the
 // lesion mask's lesions, all brought onto the scan's grid and handed over without copying.
-import { isFalciformError } from '../../src/errors';
+import { transformPoint } from '../../src/geometry/mat4';
 import { lesionsFromMask } from '../../src/lesions/components';
 import type { ManifestVisit } from '../../src/manifest/manifest';
 import type { PatientFiles } from '../../src/patient/load';
@@ -13,15 +13,13 @@ import { resampleLabels } from '../../src/segments/resample';
 import { parseScheme } from '../../src/segments/scheme';
 import type { SegmentMap } from '../../src/segments/segment-map';
 import type { Volume } from '../../src/volume/volume';
-import { storedPatient } from '../analysis/store-source';
-import { appDb } from '../store/db';
 import { resampleNearest } from '../../src/volume/resample';
-import type { VisitVolumes, VolumesMessage, VolumesRequest } from '../viewer/volume-messages';
+import { storedPatient } from '../analysis/store-source';
+import { errorText } from '../error-text';
+import { appDb } from '../store/db';
+import type { VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
-
-const scope = self as unknown as DedicatedWorkerGlobalScope;
-const post = (m: VolumesMessage, transfer: Transferable[] = []) => scope.postMessage(m, transfer);
-const message = (e: unknown) => (isFalciformError(e) || e instanceof Error ? e.message : String(e));
+import { serveJob, type Progress } from './job';
 
 /** The visit's segment map by the same rule the analysis uses: an imported map wins over landmarks. */
 async function segmentMapOf(v: ManifestVisit, files: PatientFiles, warnings: string[]): Promise<{ map: SegmentMap; source: 'imported' | 'built' }> {
@@ -60,31 +58,29 @@ function liverBox(liver: Volume): VisitVolumes['liverBoxMm'] {
     if (k < lo[2]) lo[2] = k; if (k > hi[2]) hi[2] = k;
   }
   if (lo[0] === Infinity) return null;
-  const A = liver.affine;
   const min: [number, number, number] = [Infinity, Infinity, Infinity], max: [number, number, number] = [-Infinity, -Infinity, -Infinity];
   for (const i of [lo[0], hi[0]]) for (const j of [lo[1], hi[1]]) for (const k of [lo[2], hi[2]]) {
-    for (let r = 0; r < 3; r++) {
-      const w = A[r * 4] * i + A[r * 4 + 1] * j + A[r * 4 + 2] * k + A[r * 4 + 3];
+    transformPoint(liver.affine, [i, j, k]).forEach((w, r) => {
       if (w < min[r]) min[r] = w;
       if (w > max[r]) max[r] = w;
-    }
+    });
   }
   return { min, max };
 }
 
-async function load(patientId: string, visitId: string): Promise<void> {
+async function load({ patientId, visitId }: VolumesRequest, progress: Progress): Promise<VisitVolumes> {
   const { manifest, files } = await storedPatient(appDb(), patientId);
   const v = manifest.visits.find((x) => x.id === visitId);
   if (!v) throw new Error(`visit ${visitId} is not among ${patientId}'s stored visits`);
   const total = 4;
   const warnings: string[] = [];
-  post({ type: 'progress', done: 0, total, step: 'reading the scan' });
+  progress(0, total, 'reading the scan');
   const loaded = await files.volume(v.scan);
   warnings.push(...loaded.warnings);
   const scan = loaded.volume;
   const values = summariseValues(scan.data, scan.slope, scan.inter);
 
-  post({ type: 'progress', done: 1, total, step: v.segments !== undefined ? 'reading the segment map' : 'building the segment map from the landmarks' });
+  progress(1, total, v.segments !== undefined ? 'reading the segment map' : 'building the segment map from the landmarks');
   let segments: VisitVolumes['segments'] = null;
   let segmentProblem: string | null = null;
   try {
@@ -92,12 +88,12 @@ async function load(patientId: string, visitId: string): Promise<void> {
     const names = new Set(map.scheme.values());
     segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
   } catch (e) {
-    segmentProblem = message(e);
+    segmentProblem = errorText(e);
   }
   // Only a visit that could switch to landmarks needs it; a built map has read the liver already.
   const liverBoxMm = v.liver !== undefined && v.landmarks === undefined ? liverBox((await files.volume(v.liver)).volume) : null;
 
-  post({ type: 'progress', done: 2, total, step: 'outlining the lesions' });
+  progress(2, total, 'outlining the lesions');
   let lesions: VisitVolumes['lesions'] = null;
   if (v.lesions !== undefined) {
     const mask = (await files.volume(v.lesions)).volume;
@@ -109,8 +105,8 @@ async function load(patientId: string, visitId: string): Promise<void> {
     lesions = { labels: resampleNearest(own, mask, scan), ids: found.lesions.map((_, n) => `L${n + 1}`) };
   }
 
-  post({ type: 'progress', done: 3, total, step: 'preparing the display' });
-  const volumes: VisitVolumes = {
+  progress(3, total, 'preparing the display');
+  return {
     patientId,
     visitId,
     dims: [...scan.dims],
@@ -127,16 +123,6 @@ async function load(patientId: string, visitId: string): Promise<void> {
     liverBoxMm,
     warnings,
   };
-  const transfer: Transferable[] = [scan.data.buffer as ArrayBuffer];
-  if (segments) transfer.push(segments.codes.buffer as ArrayBuffer);
-  if (lesions) transfer.push(lesions.labels.buffer as ArrayBuffer);
-  post({ type: 'result', volumes }, transfer);
 }
 
-scope.onmessage = async (e: MessageEvent<VolumesRequest>) => {
-  try {
-    await load(e.data.patientId, e.data.visitId);
-  } catch (err) {
-    post({ type: 'error', message: message(err) });
-  }
-};
+serveJob(load, (v) => [v.scan, v.segments?.codes, v.lesions?.labels].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));

@@ -1,7 +1,7 @@
 import { usePatient } from '../../analysis/PatientContext';
 import { alertRows } from '../../charts/alert-rows';
-import { oneDecimal } from '../../charts/chart-parts';
-import { go, routeHash } from '../../navigation';
+import { oneDecimal } from '../../format';
+import { RouteLink } from '../../components/RouteLink';
 
 /** Lesions closer than the set margin to another segment, at every visit; each opens in the visit view. */
 export function AlertsTab() {
@@ -29,26 +29,23 @@ export function AlertsTab() {
             </tr>
           </thead>
           <tbody>
-            {rows.map((r) => {
-              const to = { screen: 'visit' as const, patientId: patient.id, visitId: r.visit, lesionId: r.lesion };
-              return (
-                <tr key={`${r.visit}/${r.lesion}`} data-testid="alert-row" data-visit={r.visit} data-lesion={r.lesion} className={r.visit === latest ? 'latest' : undefined}>
-                  <td>{r.date}</td>
-                  <td>{r.visit}{r.visit === latest ? <span className="badge">latest</span> : null}</td>
-                  <th scope="row">{r.lesion}</th>
-                  <td>{r.track ?? '—'}</td>
-                  <td>{r.segment ?? 'outside'}</td>
-                  <td>{r.nearestOtherSegment ?? '—'}</td>
-                  <td className="num alert-cell" data-testid="alert-margin">{oneDecimal(r.marginMm)}</td>
-                  <td className="num">{oneDecimal(r.longestAxialMm)}</td>
-                  <td>
-                    <a href={routeHash(to)} onClick={(e) => { e.preventDefault(); go(to); }} data-testid="alert-open">
-                      Show {r.lesion} in the viewer ›
-                    </a>
-                  </td>
-                </tr>
-              );
-            })}
+            {rows.map((r) => (
+              <tr key={`${r.visit}/${r.lesion}`} data-testid="alert-row" data-visit={r.visit} data-lesion={r.lesion} className={r.visit === latest ? 'latest' : undefined}>
+                <td>{r.date}</td>
+                <td>{r.visit}{r.visit === latest ? <span className="badge">latest</span> : null}</td>
+                <th scope="row">{r.lesion}</th>
+                <td>{r.track ?? '—'}</td>
+                <td>{r.segment ?? 'outside'}</td>
+                <td>{r.nearestOtherSegment ?? '—'}</td>
+                <td className="num alert-cell" data-testid="alert-margin">{oneDecimal(r.marginMm)}</td>
+                <td className="num">{oneDecimal(r.longestAxialMm)}</td>
+                <td>
+                  <RouteLink to={{ screen: 'visit', patientId: patient.id, visitId: r.visit, lesionId: r.lesion }} data-testid="alert-open">
+                    Show {r.lesion} in the viewer ›
+                  </RouteLink>
+                </td>
+              </tr>
+            ))}
           </tbody>
         </table>
       )}

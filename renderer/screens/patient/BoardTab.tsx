@@ -1,7 +1,6 @@
 import { useEffect, useMemo, useState } from 'react';
 import { createPortal, flushSync } from 'react-dom';
-import { isFalciformError } from '../../../src/errors';
-import { remnantForPatient, type PatientRemnant } from '../../../src/remnant/for-patient';
+import type { PatientRemnant } from '../../../src/remnant/for-patient';
 import { boardSheetHtml } from '../../../src/report/board-html';
 import { PAGE_SIZES, type PageSize } from '../../../src/report/board-style';
 import { buildBoardSummary } from '../../../src/report/board-summary';
@@ -11,13 +10,13 @@ import type { ReportInput } from '../../../src/report/input';
 import { keyedPseudonym, randomPseudonym, type Pseudonym } from '../../../src/report/pseudonym';
 import { segmentMapFileName } from '../../../src/report/segment-map-export';
 import { usePatient } from '../../analysis/PatientContext';
+import { visitRemnant } from '../../analysis/remnant';
+import { errorText } from '../../error-text';
 import { desktopBridge, saveBytes } from '../../platform/bridge';
 import { useBoardStylesheet } from '../../report/board-stylesheet';
 import { exportSegmentMap } from '../../report/export-segment-map';
 
 type Status = { kind: 'done' | 'problem' | 'busy'; text: string } | null;
-
-const message = (e: unknown) => (isFalciformError(e) || e instanceof Error ? e.message : String(e));
 
 /**
  * The board summary as it will print, with its outputs: the page (printed or saved as PDF), the
@@ -48,21 +47,13 @@ export function BoardTab() {
     const latest = analysis.visits[analysis.visits.length - 1];
     let remnant: PatientRemnant | null;
     try {
-      // The stored record's resection and body size, which may be newer than the analysed manifest.
-      remnant = latest ? remnantForPatient(
-        analysis.manifest,
-        { id: latest.id, date: latest.date, volumetry: latest.volumetry, lesions: latest.analysis.lesions },
-        {
-          ...(patient.resection ? { resection: patient.resection } : {}),
-          body: { heightCm: patient.heightCm ?? null, weightKg: patient.weightKg ?? null },
-          tracks: analysis.followup.tracks,
-        },
-      ) : null;
+      // The stored record's resection, which may be newer than the analysed manifest.
+      remnant = latest ? visitRemnant(analysis, latest, patient, patient.resection) : null;
     } catch {
       remnant = null; // the Remnant tab shows why; the page goes without the line
     }
     return { manifest: analysis.manifest, visits: analysis.visits, followup: analysis.followup, remnant };
-  }, [analysis, patient.resection, patient.heightCm, patient.weightKg]);
+  }, [analysis, patient]);
 
   const pending = pseudonymise && !pseudonym;
   const summary = useMemo(() => (input && !pending ? buildBoardSummary(input, { madeAt, pseudonym }) : null), [input, madeAt, pseudonym, pending]);
@@ -83,7 +74,7 @@ export function BoardTab() {
       const r = await bridge.printToPdf({ suggestedName: `${label}-board-summary.pdf`, pageSize: page });
       setStatus(r.saved ? { kind: 'done', text: 'Board summary saved as PDF.' } : null);
     } catch (e) {
-      setStatus({ kind: 'problem', text: `The PDF was not made: ${message(e)}` });
+      setStatus({ kind: 'problem', text: `The PDF was not made: ${errorText(e)}` });
     }
   };
 
@@ -93,7 +84,7 @@ export function BoardTab() {
       const saved = await saveBytes(`${label}-case-form.csv`, utf8(csv), 'text/csv');
       setStatus(saved ? { kind: 'done', text: `Case form exported (${csv.split('\r\n').length - 2} rows).` } : null);
     } catch (e) {
-      setStatus({ kind: 'problem', text: `The case form was not exported: ${message(e)}` });
+      setStatus({ kind: 'problem', text: `The case form was not exported: ${errorText(e)}` });
     }
   };
 
@@ -104,7 +95,7 @@ export function BoardTab() {
       const saved = await saveBytes(`${label}-${segmentMapFileName(visitId)}`, bytes, 'application/gzip');
       setStatus(saved ? { kind: 'done', text: `Segment map of ${visitId} exported as NIfTI-1 (.nii.gz).` } : null);
     } catch (e) {
-      setStatus({ kind: 'problem', text: `The segment map of ${visitId} was not exported: ${message(e)}` });
+      setStatus({ kind: 'problem', text: `The segment map of ${visitId} was not exported: ${errorText(e)}` });
     }
   };
 

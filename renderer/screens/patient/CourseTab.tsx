@@ -1,8 +1,9 @@
-import { useCallback, useEffect, useMemo, useState } from 'react';
+import { useCallback, useMemo, useState } from 'react';
 import type { Criteria } from '../../../src/followup/response';
 import type { TreatmentRecord } from '../../../src/model/records';
 import { usePatient } from '../../analysis/PatientContext';
 import { BurdenChart } from '../../charts/BurdenChart';
+import type { CourseTime } from '../../charts/chart-parts';
 import {
   availableCriteria, burdenSeries, lesionSeries, responseData, timeDomain, treatmentMarkers, visitTicks,
 } from '../../charts/chart-data';
@@ -11,19 +12,16 @@ import { ResponseChart } from '../../charts/ResponseChart';
 import { TreatmentEvents } from '../../charts/TreatmentEvents';
 import { appDb } from '../../store/db';
 import { patientTreatments } from '../../store/treatment-edits';
+import { useStored } from '../../store/use-stored';
+
+const NO_TREATMENTS: TreatmentRecord[] = [];
 
 /** The course of disease over real dates: response, each lesion, each segment's burden, treatments. */
 export function CourseTab() {
   const { patient, analysis, reload } = usePatient();
-  const [treatments, setTreatments] = useState<TreatmentRecord[]>([]);
   const [revision, setRevision] = useState(0);
   const [chosen, setChosen] = useState<Criteria | null>(null);
-
-  useEffect(() => {
-    let live = true;
-    void patientTreatments(appDb(), patient.id).then((t) => { if (live) setTreatments(t); });
-    return () => { live = false; };
-  }, [patient.id, revision]);
+  const treatments = useStored(() => patientTreatments(appDb(), patient.id), [patient.id, revision]) ?? NO_TREATMENTS;
   const changed = useCallback(() => { setRevision((r) => r + 1); reload(); }, [reload]);
 
   const f = analysis?.followup;
@@ -31,10 +29,9 @@ export function CourseTab() {
     if (!f) return null;
     const markers = treatmentMarkers(treatments);
     const ticks = visitTicks(f);
+    const time: CourseTime = { domain: timeDomain([...ticks, ...markers.map((m) => m.t)]), ticks, treatments: markers };
     return {
-      markers,
-      ticks,
-      domain: timeDomain([...ticks, ...markers.map((m) => m.t)]),
+      time,
       lesions: lesionSeries(f),
       burden: burdenSeries(f),
       criteria: availableCriteria(f),
@@ -59,11 +56,11 @@ export function CourseTab() {
           </div>
         )}
       </div>
-      <ResponseChart data={response} domain={view.domain} ticks={view.ticks} treatments={view.markers} />
-      <LesionChart series={view.lesions} domain={view.domain} ticks={view.ticks} treatments={view.markers} />
+      <ResponseChart data={response} time={view.time} />
+      <LesionChart series={view.lesions} time={view.time} />
       <div className="chart-pair">
-        <BurdenChart metric="sumMm" series={view.burden} domain={view.domain} ticks={view.ticks} treatments={view.markers} />
-        <BurdenChart metric="volumeMl" series={view.burden} domain={view.domain} ticks={view.ticks} treatments={view.markers} />
+        <BurdenChart metric="sumMm" series={view.burden} time={view.time} />
+        <BurdenChart metric="volumeMl" series={view.burden} time={view.time} />
       </div>
       <TreatmentEvents patientId={patient.id} treatments={treatments} onChange={changed} />
     </section>

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { usePatient } from '../../analysis/PatientContext';
-import { oneDecimal } from '../../charts/chart-parts';
+import { oneDecimal } from '../../format';
 import { SegmentDiagram } from '../../diagram/SegmentDiagram';
 import { placeLesions } from '../../../src/report/diagram-placement';
 

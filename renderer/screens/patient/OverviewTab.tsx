@@ -1,9 +1,8 @@
 import type { VisitFollowup } from '../../../src/followup/followup';
 import { usePatient } from '../../analysis/PatientContext';
-import { go } from '../../navigation';
+import { RouteLink } from '../../components/RouteLink';
+import { fmtMm, fmtPct } from '../../format';
 
-const pct = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x > 0 ? '+' : ''}${x.toFixed(1)}%`);
-const mm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x.toFixed(1)} mm`);
 
 /** The visit timeline: each visit's inputs, lesions, alerts and response category. */
 export function OverviewTab() {
@@ -38,19 +37,14 @@ export function OverviewTab() {
               <tr key={mv.id} data-testid="visit-row" data-visit={mv.id}>
                 <td>{mv.date}</td>
                 <th scope="row">
-                  <a
-                    href={`#/patient/${encodeURIComponent(patient.id)}/visit/${encodeURIComponent(mv.id)}`}
-                    onClick={(e) => { e.preventDefault(); go({ screen: 'visit', patientId: patient.id, visitId: mv.id }); }}
-                  >
-                    {mv.id}
-                  </a>
+                  <RouteLink to={{ screen: 'visit', patientId: patient.id, visitId: mv.id }}>{mv.id}</RouteLink>
                 </th>
                 <td>{mv.segments ? 'imported' : 'built from landmarks'}</td>
                 <td>{lesions.length} ({[mv.lesions && 'mask', mv.marks && 'marks'].filter(Boolean).join(' + ')})</td>
                 <td className={f?.marginAlerts.length ? 'alert-cell' : undefined}>{f?.marginAlerts.join(', ') || '—'}</td>
-                <td>{mm(r?.targetSumMm)}</td>
-                <td>{k === 0 ? 'baseline' : pct(r?.changeFromBaselinePct)}</td>
-                <td>{k === 0 ? '—' : pct(r?.changeFromNadirPct)}</td>
+                <td>{fmtMm(r?.targetSumMm, 1)}</td>
+                <td>{k === 0 ? 'baseline' : fmtPct(r?.changeFromBaselinePct, 1)}</td>
+                <td>{k === 0 ? '—' : fmtPct(r?.changeFromNadirPct, 1)}</td>
                 <td>
                   <span className={`category category-${(f?.overall ?? 'none').replace(/[^A-Za-z]/g, '')}`} data-testid="response">
                     {k === 0 ? 'baseline' : (f?.overall ?? '—')}

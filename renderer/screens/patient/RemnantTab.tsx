@@ -1,13 +1,14 @@
 import { useMemo, useState, type FormEvent } from 'react';
-import { isFalciformError } from '../../../src/errors';
 import type { ProposedResection } from '../../../src/manifest/manifest';
 import { bodySurfaceAreaM2, standardisedLiverVolumeMl } from '../../../src/remnant/body';
-import { remnantForPatient, type PatientRemnant } from '../../../src/remnant/for-patient';
+import type { PatientRemnant } from '../../../src/remnant/for-patient';
 import { RESECTION_PRESETS } from '../../../src/remnant/resections';
 import type { VisitVolumetry } from '../../../src/remnant/volumetry';
 import type { SegmentName } from '../../../src/segments/segment-map';
 import { usePatient } from '../../analysis/PatientContext';
+import { visitRemnant } from '../../analysis/remnant';
 import type { VisitResult } from '../../analysis/types';
+import { errorText } from '../../error-text';
 import { appDb } from '../../store/db';
 import { updatePatient } from '../../store/patients';
 
@@ -32,14 +33,9 @@ export function RemnantTab() {
   let plan: PatientRemnant | null = null;
   let problem: string | null = null;
   try {
-    // The stored record's height and weight, which may be newer than the analysed manifest.
-    plan = choice && remnantForPatient(
-      analysis.manifest,
-      { id: visit.id, date: visit.date, volumetry: visit.volumetry, lesions: visit.analysis.lesions },
-      { resection: choice, body: { heightCm: patient.heightCm ?? null, weightKg: patient.weightKg ?? null }, tracks: analysis.followup.tracks },
-    );
+    plan = choice && visitRemnant(analysis, visit, patient, choice);
   } catch (e) {
-    problem = isFalciformError(e) || e instanceof Error ? e.message : String(e);
+    problem = errorText(e);
   }
   const removed = new Set<SegmentName>(plan?.removedSegments ?? []);
   const toggle = (s: SegmentName) => {
@@ -325,7 +321,7 @@ function BodySize({ heightCm, weightKg, patientId, onSaved }: {
       // The same checks the standardised remnant applies, so a value saved here is one it can use.
       standardisedLiverVolumeMl(bodySurfaceAreaM2(h, w));
     } catch (err) {
-      setError(err instanceof Error ? err.message : String(err));
+      setError(errorText(err));
       return;
     }
     setSaving(true);
@@ -335,7 +331,7 @@ function BodySize({ heightCm, weightKg, patientId, onSaved }: {
       setEditing(false);
       onSaved();
     } catch (err) {
-      setError(err instanceof Error ? err.message : String(err));
+      setError(errorText(err));
     } finally {
       setSaving(false);
     }

@@ -1,15 +1,16 @@
-import { useCallback, useEffect, useState } from 'react';
-import { isFalciformError } from '../../../src/errors';
+import { useCallback, useState } from 'react';
 import type { TrackSummary } from '../../../src/followup/followup';
 import { MAX_TARGETS_PER_ORGAN } from '../../../src/followup/recist';
-import type { AuditRecord, JsonValue, OverrideRecord } from '../../../src/model/records';
+import type { AuditRecord, JsonValue } from '../../../src/model/records';
 import { usePatient } from '../../analysis/PatientContext';
 import { trackOfLesion } from '../../charts/chart-data';
+import { errorText } from '../../error-text';
 import { appDb } from '../../store/db';
 import { patientTrail } from '../../store/patients';
 import {
   linkLesion, markNewLesion, patientOverrides, removeOverride, setTargets, trackRef, unlinkLesion, type LesionAt,
 } from '../../store/track-edits';
+import { useStored } from '../../store/use-stored';
 
 const STATUS_TEXT: Record<string, string> = { gone: 'gone', 'not-evaluable': 'not in scanned field' };
 const HOW_TEXT: Record<string, string> = { override: 'linked by reader', split: 'split', coalesced: 'merged here' };
@@ -22,24 +23,16 @@ const HOW_TEXT: Record<string, string> = { override: 'linked by reader', split: 
 export function TracksTab() {
   const { patient, analysis, state, reanalyse } = usePatient();
   const [selected, setSelected] = useState<{ visit: string; lesion: string } | null>(null);
-  const [overrides, setOverrides] = useState<OverrideRecord[]>([]);
-  const [trail, setTrail] = useState<AuditRecord[]>([]);
   const [revision, setRevision] = useState(0);
   const [problem, setProblem] = useState<string | null>(null);
   const [linkTo, setLinkTo] = useState('');
-  // The targets just ticked, shown until the rerun analysis brings them back.
-  const [pendingTargets, setPendingTargets] = useState<string[] | null>(null);
-  useEffect(() => setPendingTargets(null), [analysis]);
+  // The targets just ticked, shown over the analysis they were ticked on until the rerun brings them back.
+  const [pending, setPending] = useState<{ targets: string[]; over: typeof analysis } | null>(null);
 
-  useEffect(() => {
-    let live = true;
-    void Promise.all([patientOverrides(appDb(), patient.id), patientTrail(appDb(), patient.id)]).then(([o, t]) => {
-      if (!live) return;
-      setOverrides(o);
-      setTrail(t);
-    });
-    return () => { live = false; };
-  }, [patient.id, revision]);
+  const [overrides, trail] = useStored(
+    () => Promise.all([patientOverrides(appDb(), patient.id), patientTrail(appDb(), patient.id)]),
+    [patient.id, revision],
+  ) ?? [[], []];
 
   const edit = useCallback(async (change: () => Promise<unknown>) => {
     setProblem(null);
@@ -48,8 +41,8 @@ export function TracksTab() {
       setRevision((r) => r + 1);
       reanalyse();
     } catch (e) {
-      setProblem(isFalciformError(e) || e instanceof Error ? e.message : String(e));
-      setPendingTargets(null);
+      setProblem(errorText(e));
+      setPending(null);
     }
   }, [reanalyse]);
 
@@ -60,7 +53,7 @@ export function TracksTab() {
   const holder = trackOfLesion(f);
   const busy = state.status === 'running';
   const baseline = visits[0]?.id;
-  const targets = pendingTargets ?? f.targets.tracks;
+  const targets = pending?.over === analysis ? pending.targets : f.targets.tracks;
   const trackLabel = (ref: string | undefined) => {
     if (!ref) return '';
     const [v, l] = ref.includes(':') ? ref.split(':') : [null, null];
@@ -69,7 +62,7 @@ export function TracksTab() {
 
   const toggleTarget = (id: string, on: boolean) => {
     const next = on ? [...targets, id] : targets.filter((t) => t !== id);
-    setPendingTargets(next);
+    setPending({ targets: next, over: analysis });
     void edit(() => setTargets(appDb(), patient.id, next));
   };
 

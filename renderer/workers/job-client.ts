@@ -1,0 +1,67 @@
+import { useEffect, useState, type DependencyList } from 'react';
+import { FalciformError } from '../../src/errors';
+import { errorText } from '../error-text';
+import type { JobReply, Progress } from './job';
+
+export interface JobOptions {
+  /** What failed, in words, when the worker itself stops (a script error, no memory). */
+  crashed: string;
+  /** Buffers of the request to hand over rather than copy. */
+  transfer?: Transferable[];
+  onProgress?: Progress;
+  /** Ends the worker; the promise then never settles. */
+  signal?: AbortSignal;
+}
+
+/** Sends one request to a fresh worker and ends the worker when it answers. */
+export function runJob<R>(worker: Worker, request: unknown, opts: JobOptions): Promise<R> {
+  return new Promise<R>((resolve, reject) => {
+    const end = () => worker.terminate();
+    opts.signal?.addEventListener('abort', end);
+    worker.onmessage = (e: MessageEvent<JobReply<R>>) => {
+      const m = e.data;
+      if (m.type === 'progress') return opts.onProgress?.(m.done, m.total, m.step);
+      end();
+      if (m.type === 'result') resolve(m.result);
+      else reject(m.falciform ? new FalciformError(m.falciform.kind, m.falciform.file, m.falciform.problem) : new Error(m.message));
+    };
+    worker.onerror = (e) => {
+      end();
+      reject(new Error(e.message || opts.crashed));
+    };
+    worker.postMessage(request, [...new Set(opts.transfer ?? [])]);
+  });
+}
+
+export type JobState =
+  | { status: 'running'; done: number; total: number; step: string }
+  | { status: 'ready' }
+  | { status: 'failed'; message: string };
+
+/**
+ * Runs a job in a worker of `start` whenever `deps` change, following its progress. The last
+ * result stays available while a new run is under way; a run overtaken by the next one is ended.
+ */
+export function useJob<R>(start: () => Worker, request: unknown, crashed: string, deps: DependencyList): { state: JobState; last: R | null } {
+  const [state, setState] = useState<JobState>({ status: 'running', done: 0, total: 1, step: 'starting' });
+  const [last, setLast] = useState<R | null>(null);
+  useEffect(() => {
+    const stop = new AbortController();
+    const live = () => !stop.signal.aborted;
+    runJob<R>(start(), request, {
+      crashed,
+      signal: stop.signal,
+      onProgress: (done, total, step) => { if (live()) setState({ status: 'running', done, total, step }); },
+    }).then(
+      (result) => {
+        if (!live()) return;
+        setLast(result);
+        setState({ status: 'ready' });
+      },
+      (e: unknown) => { if (live()) setState({ status: 'failed', message: errorText(e) }); },
+    );
+    return () => stop.abort();
+    // The caller names what the run depends on; start and request are read from that render.
+  }, deps);
+  return { state, last };
+}
