@@ -200,11 +200,4 @@ export function trackOfLesion(f: FollowupResult): Map<string, string> {
   return out;
 }
 
-/**
- * Whether a lesion is below the set margin, judged as the follow-up judges it: by its margin against
- * the follow-up's margin when the margin is known, else by the visit analysis's own alert.
- */
-export function belowMargin(lesion: { marginMm?: number | null; marginAlert: boolean }, marginMm: number): boolean {
-  if (lesion.marginMm === undefined) return lesion.marginAlert;
-  return lesion.marginMm !== null && lesion.marginMm < marginMm;
-}
+export { belowMargin } from '../../src/followup/followup.js';

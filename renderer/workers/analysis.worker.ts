@@ -1,8 +1,7 @@
 /// <reference lib="webworker" />
 // Loads a stored patient and runs the core's visit analysis and follow-up off the window's thread.
-import { runFollowup } from '../../src/followup/followup';
 import type { Override } from '../../src/followup/tracks';
-import { loadPatientFrom } from '../../src/patient/load';
+import { followupOfPatient, loadPatientFrom } from '../../src/patient/load';
 import type { AnalysisRequest, PatientAnalysis } from '../analysis/types';
 import { storedPatient } from '../analysis/store-source';
 import { appDb } from '../store/db';
@@ -28,12 +27,7 @@ async function analyse({ patientId }: AnalysisRequest, progress: Progress): Prom
       : o.kind === 'unlink' ? { kind: 'unlink', visit: o.visit, lesion: o.lesion, ...(o.track ? { track: o.track } : {}) }
         : { kind: 'new', visit: o.visit, lesion: o.lesion },
   );
-  const followup = runFollowup(visits.map((v) => v.followup), {
-    targets: manifest.targets,
-    overrides,
-    marginMm: manifest.marginMm,
-    criteria: manifest.criteria,
-  });
+  const followup = followupOfPatient({ manifest, manifestFile: patientId, visits }, overrides);
   return {
     manifest,
     visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings })),

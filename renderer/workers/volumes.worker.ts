@@ -4,14 +4,8 @@
 // lesion mask's lesions, all brought onto the scan's grid and handed over without copying.
 import { transformPoint } from '../../src/geometry/mat4';
 import { lesionsFromMask } from '../../src/lesions/components';
-import type { ManifestVisit } from '../../src/manifest/manifest';
-import type { PatientFiles } from '../../src/patient/load';
-import { buildSegmentMap } from '../../src/segments/build';
-import { importSegmentMap } from '../../src/segments/import';
-import { parseLandmarks } from '../../src/segments/landmarks';
+import { visitSegmentMap } from '../../src/patient/visit-map';
 import { resampleLabels } from '../../src/segments/resample';
-import { parseScheme } from '../../src/segments/scheme';
-import type { SegmentMap } from '../../src/segments/segment-map';
 import type { Volume } from '../../src/volume/volume';
 import { resampleNearest } from '../../src/volume/resample';
 import { storedPatient } from '../analysis/store-source';
@@ -20,30 +14,6 @@ import { appDb } from '../store/db';
 import type { VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
 import { serveJob, type Progress } from './job';
-
-/** The visit's segment map by the same rule the analysis uses: an imported map wins over landmarks. */
-async function segmentMapOf(v: ManifestVisit, files: PatientFiles, warnings: string[]): Promise<{ map: SegmentMap; source: 'imported' | 'built' }> {
-  if (v.segments !== undefined) {
-    const labels = await files.volume(v.segments);
-    const scheme = v.scheme === undefined || v.scheme === 'default' ? 'default' : parseScheme(await files.text(v.scheme), files.name(v.scheme));
-    const imported = importSegmentMap(labels.volume, scheme, files.name(v.segments));
-    warnings.push(...imported.warnings);
-    return { map: imported.map, source: 'imported' };
-  }
-  if (v.liver === undefined || v.landmarks === undefined) throw new Error('the visit has neither a segment map nor a liver mask with landmarks');
-  const liver = await files.volume(v.liver);
-  const landmarks = parseLandmarks(await files.text(v.landmarks), files.name(v.landmarks));
-  const caudate = v.caudate !== undefined ? (await files.volume(v.caudate)).volume : undefined;
-  const built = buildSegmentMap(liver.volume, landmarks, {
-    caudate,
-    splitIV: v.splitIV,
-    file: files.name(v.landmarks),
-    liverFile: files.name(v.liver),
-    ...(v.caudate !== undefined ? { caudateFile: files.name(v.caudate) } : {}),
-  });
-  warnings.push(...built.warnings);
-  return { map: built.map, source: 'built' };
-}
 
 /** World box around the liver mask's voxels (for placing a first landmark set). */
 function liverBox(liver: Volume): VisitVolumes['liverBoxMm'] {
@@ -84,7 +54,9 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
   let segments: VisitVolumes['segments'] = null;
   let segmentProblem: string | null = null;
   try {
-    const { map, source } = await segmentMapOf(v, files, warnings);
+    const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
+    const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read);
+    warnings.push(...mapWarnings);
     const names = new Set(map.scheme.values());
     segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
   } catch (e) {

@@ -295,7 +295,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
       newLesions: k > 0 ? tracks.filter((t) => t.firstVisit === k).map((t) => t.id) : [],
       goneLesions: withStatus('gone'),
       notEvaluable: withStatus('not-evaluable'),
-      marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => alerts(l, opts.marginMm))).map((t) => t.id),
+      marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => belowMargin(l, opts.marginMm))).map((t) => t.id),
       alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
     };
   });
@@ -314,7 +314,8 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
   };
 }
 
-function alerts(l: FollowupLesion, marginMm: number): boolean {
+/** A margin alert under the patient's margin (a lesion without a measured margin keeps its own flag). */
+export function belowMargin(l: { marginMm?: number | null; marginAlert: boolean }, marginMm: number): boolean {
   if (l.marginMm === undefined) return l.marginAlert;
   return l.marginMm !== null && l.marginMm < marginMm;
 }

@@ -2,19 +2,17 @@ import { badFile, isFalciformError } from '../errors.js';
 import { describeLiver, type LiverShape } from '../followup/liver-shape.js';
 import { runFollowup, type FollowupResult, type FollowupVisit } from '../followup/followup.js';
 import type { ViableComponent } from '../followup/mrecist.js';
+import type { Override } from '../followup/tracks.js';
 import { lesionsFromMask } from '../lesions/components.js';
 import { parseMarks } from '../lesions/marks.js';
 import { measureMaskLesion } from '../lesions/measures.js';
 import type { Manifest, ManifestVisit } from '../manifest/manifest.js';
 import { visitVolumetry, type VisitVolumetry } from '../remnant/volumetry.js';
-import { buildSegmentMap } from '../segments/build.js';
-import { importSegmentMap } from '../segments/import.js';
-import { parseLandmarks, type LandmarkSet } from '../segments/landmarks.js';
-import { parseScheme } from '../segments/scheme.js';
 import type { SegmentMap } from '../segments/segment-map.js';
 import { analyzeVisit, type VisitAnalysis } from '../visit/analyze.js';
 import type { LoadedNifti } from '../volume/nifti-read.js';
 import { axialAxis, type Volume } from '../volume/volume.js';
+import { visitSegmentMap } from './visit-map.js';
 
 /**
  * Reads every file a patient's study manifest names, and analyses each visit as `falciform analyze`
@@ -93,32 +91,12 @@ async function loadVisit(
   const axis = axialAxis(scan.affine);
   const sliceThicknessMm = scan.spacingMm[axis];
 
-  let segments: SegmentMap;
-  let landmarks: LandmarkSet | undefined;
-  let liver: LiverShape | null;
-  if (v.segments !== undefined) {
-    const labels = await volume('segments', v.segments);
-    const scheme = v.scheme === undefined || v.scheme === 'default' ? 'default' : parseScheme(await text('scheme', v.scheme), path(v.scheme));
-    const imported = importSegmentMap(labels, scheme, files.segments);
-    warnings.push(...imported.warnings);
-    segments = imported.map;
-    // Every labelled voxel is liver: the map's own outline serves for alignment.
-    liver = describeLiver(labels);
-  } else {
-    const liverVolume = await volume('liver', v.liver as string);
-    landmarks = parseLandmarks(await text('landmarks', v.landmarks as string), path(v.landmarks as string));
-    const caudate = v.caudate !== undefined ? await volume('caudate', v.caudate) : undefined;
-    const built = buildSegmentMap(liverVolume, landmarks, {
-      caudate,
-      splitIV: v.splitIV,
-      file: files.landmarks,
-      liverFile: files.liver,
-      caudateFile: files.caudate,
-    });
-    warnings.push(...built.warnings);
-    segments = built.map;
-    liver = describeLiver(liverVolume);
-  }
+  const visitMap = await visitSegmentMap(v, { volume, text, name: path });
+  warnings.push(...visitMap.warnings);
+  const segments = visitMap.map;
+  const landmarks = visitMap.landmarks;
+  // An imported map's labelled voxels are all liver: its own outline serves for alignment.
+  const liver: LiverShape | null = describeLiver(visitMap.liver);
   if (liver === null) throw badFile(files.segments ?? files.liver, 'holds no liver voxels');
 
   const lesionMask = v.lesions !== undefined ? await volume('lesions', v.lesions) : undefined;
@@ -160,13 +138,16 @@ async function loadVisit(
   return { manifest: v, analysis, volumetry, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
 }
 
-/** runFollowup with the manifest's targets, margin and criteria; a bad target names the manifest. */
-export function followupOfPatient(patient: LoadedPatient): FollowupResult {
+/**
+ * runFollowup with the manifest's targets, margin and criteria, and a reader's corrections of the
+ * matching when there are any; a bad target names the manifest.
+ */
+export function followupOfPatient(patient: LoadedPatient, overrides: readonly Override[] = []): FollowupResult {
   const m = patient.manifest;
   try {
     return runFollowup(
       patient.visits.map((v) => v.followup),
-      { targets: m.targets, marginMm: m.marginMm, criteria: m.criteria },
+      { targets: m.targets, overrides, marginMm: m.marginMm, criteria: m.criteria },
     );
   } catch (e) {
     if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(patient.manifestFile, `field ${e.file}: ${e.problem}`);
