@@ -13,6 +13,9 @@ export interface VisitReader {
   name(path: string): string;
 }
 
+/** The manifest fields a visit's segment map comes from. */
+export type MapFiles = Pick<ManifestVisit, 'segments' | 'scheme' | 'liver' | 'landmarks' | 'caudate' | 'splitIV'>;
+
 export interface VisitMap {
   map: SegmentMap;
   source: 'imported' | 'built';
@@ -26,7 +29,7 @@ export interface VisitMap {
  * A visit's segment map: the imported one with its scheme, or one built by the plane rule from the
  * liver mask, landmark set and optional caudate mask. The one rule the analysis and the viewer share.
  */
-export async function visitSegmentMap(v: ManifestVisit, read: VisitReader): Promise<VisitMap> {
+export async function visitSegmentMap(v: MapFiles, read: VisitReader): Promise<VisitMap> {
   if (v.segments !== undefined) {
     const labels = await read.volume('segments', v.segments);
     const scheme = v.scheme === undefined || v.scheme === 'default' ? 'default' : parseScheme(await read.text('scheme', v.scheme), read.name(v.scheme));

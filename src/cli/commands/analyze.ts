@@ -2,10 +2,7 @@ import { CAUTION } from '../../caution.js';
 import type { Vec3 } from '../../geometry/mat4.js';
 import { parseMarks } from '../../lesions/marks.js';
 import { roundTo } from '../../rounding.js';
-import { buildSegmentMap } from '../../segments/build.js';
-import { importSegmentMap } from '../../segments/import.js';
-import { parseLandmarks } from '../../segments/landmarks.js';
-import { parseScheme } from '../../segments/scheme.js';
+import { visitSegmentMap } from '../../patient/visit-map.js';
 import type { SegmentMap } from '../../segments/segment-map.js';
 import { analyzeVisit, DEFAULT_MARGIN_MM, type LesionResult, type VisitAnalysis } from '../../visit/analyze.js';
 import type { Volume } from '../../volume/volume.js';
@@ -41,9 +38,7 @@ export const analyze: Command = {
     // One file at a time, largest first: each compressed file is dropped before the next is
     // inflated, which keeps the peak near the inflated voxels themselves.
     const scan = keep(await loadVolume(scanFile), warnings);
-    const segments = segmentsFile !== undefined
-      ? await importedMap(segmentsFile, schemeFile, warnings)
-      : await builtMap(liverFile as string, landmarksFile as string, warnings);
+    const segments = await visitMap(segmentsFile, schemeFile, liverFile, landmarksFile, warnings);
     const lesionMask = lesionsFile !== undefined ? keep(await loadVolume(lesionsFile), warnings) : undefined;
     const marks = marksFile !== undefined ? parseMarks(await readTextFile(marksFile), marksFile) : undefined;
     const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile });
@@ -58,24 +53,17 @@ function keep(loaded: { volume: Volume; warnings: string[] }, warnings: string[]
   return loaded.volume;
 }
 
-async function importedMap(file: string, schemeFile: string | undefined, warnings: string[]): Promise<SegmentMap> {
-  const [labels, scheme] = await Promise.all([
-    loadVolume(file).then((r) => keep(r, warnings)),
-    schemeFile !== undefined ? readTextFile(schemeFile).then((t) => parseScheme(t, schemeFile)) : ('default' as const),
-  ]);
-  const imported = importSegmentMap(labels, scheme, file);
-  warnings.push(...imported.warnings);
-  return imported.map;
-}
-
-async function builtMap(liverFile: string, landmarksFile: string, warnings: string[]): Promise<SegmentMap> {
-  const [liver, landmarks] = await Promise.all([
-    loadVolume(liverFile).then((r) => keep(r, warnings)),
-    readTextFile(landmarksFile).then((t) => parseLandmarks(t, landmarksFile)),
-  ]);
-  const built = buildSegmentMap(liver, landmarks, { file: landmarksFile, liverFile });
-  warnings.push(...built.warnings);
-  return built.map;
+/** The map as a manifest visit would give it, read from the files named on the command line. */
+async function visitMap(segmentsFile: string | undefined, schemeFile: string | undefined, liverFile: string | undefined,
+  landmarksFile: string | undefined, warnings: string[]): Promise<SegmentMap> {
+  const visit = { segments: segmentsFile, scheme: schemeFile, liver: liverFile, landmarks: landmarksFile };
+  const { map, warnings: mapWarnings } = await visitSegmentMap(visit, {
+    volume: async (_role, path) => keep(await loadVolume(path), warnings),
+    text: (_role, path) => readTextFile(path),
+    name: (path) => path,
+  });
+  warnings.push(...mapWarnings);
+  return map;
 }
 
 // Printed precision: well below what a scan resolves, well above float noise.
