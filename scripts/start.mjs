@@ -8,7 +8,7 @@ import { createRequire } from 'node:module';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
 import { startWebServer } from '../build/main/web-server.js';
-import { findBrowser } from '../build/src/cli/print-pdf.js';
+import { findBrowser, noBrowserReason } from '../build/src/cli/print-pdf.js';
 
 const require = createRequire(import.meta.url);
 
@@ -69,7 +69,9 @@ async function runServed() {
 
   const path = findBrowser();
   if (!path) {
-    console.log('No Chromium or Chrome found: open the address above in a browser. Ctrl-C to stop.');
+    // Serving is enough to use the app; installing a browser is left to the user.
+    const install = process.env.FALCIFORM_BROWSER ? '' : ' (or install Chromium, e.g. sudo apt-get install chromium, and run npm start again)';
+    console.log(`No browser window: ${noBrowserReason()}. Open ${server.url} in any browser${install}. Ctrl-C to stop.`);
     return;
   }
   const started = Date.now();
@@ -87,6 +89,17 @@ async function runServed() {
   });
 }
 
+/** Electron 45 and its packager ask for Node 22.12 or later; on older Node npm leaves both out. */
+function whyNoElectron() {
+  const [major, minor] = process.versions.node.split('.').map(Number);
+  return major < 22 || (major === 22 && minor < 12)
+    ? `it needs Node 22.12 or later and this is Node ${process.versions.node}`
+    : 'its binary could not be downloaded from Electron\'s release site';
+}
+
 const electron = electronBinary();
 if (electron) runElectron(electron);
-else await runServed();
+else {
+  console.log(`Electron is not installed (${whyNoElectron()}): the app opens in a browser window instead.`);
+  await runServed();
+}

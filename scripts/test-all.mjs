@@ -1,7 +1,13 @@
-// npm test: typecheck, lint, unit tests and end-to-end tests, then one closing line
-// "N passed, N failed" that sums them all. Exits non-zero when anything failed or was skipped.
+// npm test: the system tools the suite uses (installed when root on Debian/Ubuntu), then typecheck,
+// lint, unit tests and end-to-end tests, the total time, and one closing line "N passed, N failed"
+// that sums them all. Exits non-zero when anything failed or was skipped.
 import { spawnSync } from 'node:child_process';
 import { mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { ensureSystemTools } from './system-tools.mjs';
+
+const startedAt = Date.now();
+console.log('== system tools');
+if (!ensureSystemTools()) process.exit(1);
 
 const results = { passed: 0, failed: 0, skipped: 0 };
 mkdirSync('test-results', { recursive: true });
@@ -46,5 +52,7 @@ vitest('unit');
 vitest('e2e');
 
 const { passed, failed, skipped } = results;
-console.log(`\n${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
+const seconds = Math.round((Date.now() - startedAt) / 1000);
+console.log(`\nTotal time ${Math.floor(seconds / 60)} min ${seconds % 60} s`);
+console.log(`${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
 process.exitCode = failed > 0 || skipped > 0 ? 1 : 0;

@@ -27,6 +27,14 @@ export function findBrowser(env: NodeJS.ProcessEnv = process.env): string | null
   return CANDIDATES.find((p) => existsSync(p)) ?? null;
 }
 
+/** Why findBrowser gave none, in words for the user. */
+export function noBrowserReason(env: NodeJS.ProcessEnv = process.env): string {
+  const chosen = env.FALCIFORM_BROWSER;
+  if (chosen === 'none') return 'skipped at the user\'s request (FALCIFORM_BROWSER=none)';
+  if (chosen) return `FALCIFORM_BROWSER names ${chosen}, which does not exist`;
+  return 'no Chromium or Chrome found (set FALCIFORM_BROWSER to one)';
+}
+
 export const PRINT_TIMEOUT_MS = 90_000;
 
 /** Prints htmlFile to pdfFile; rejects with the reason in words when no PDF came out. */

@@ -1,4 +1,4 @@
-import type { ChildProcess } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync, mkdtempSync } from 'node:fs';
 import { request } from 'node:http';
 import { tmpdir } from 'node:os';
@@ -53,5 +53,33 @@ describe('npm start, browser mode', () => {
     const exited = new Promise<number | null>((resolve) => app.on('exit', (code) => resolve(code)));
     app.kill('SIGINT');
     await expect(exited).resolves.toBe(0);
+  });
+});
+
+// A fresh machine without Electron's binary and without a browser: two plain lines tell the user why
+// and where the app is.
+describe('npm start without Electron and without a browser', () => {
+  it('says Electron is not installed, serves the app and names the address to open', async () => {
+    const data = mkdtempSync(join(tmpdir(), 'falciform-start-'));
+    const app = spawn(process.execPath, ['scripts/start.mjs'], {
+      env: { ...process.env, FALCIFORM_BROWSER: 'none', FALCIFORM_DATA_DIR: data },
+      stdio: ['ignore', 'pipe', 'inherit'],
+    });
+    const out = await new Promise<string>((resolve, reject) => {
+      let text = '';
+      app.stdout.on('data', (chunk) => {
+        text += chunk;
+        if (/Ctrl-C to stop\.\n/.test(text)) resolve(text);
+      });
+      app.on('exit', (code) => reject(new Error(`start exited early with ${code}: ${text}`)));
+    });
+    const exited = new Promise<number | null>((resolve) => app.on('exit', (code) => resolve(code)));
+    app.kill('SIGINT');
+    await expect(exited).resolves.toBe(0);
+    const lines = out.trim().split('\n');
+    expect(lines[0]).toMatch(/^Electron is not installed \((it needs Node 22\.12 or later|its binary could not be downloaded).*\): the app opens in a browser window instead\.$/);
+    const url = /served at (http:\/\/127\.0\.0\.1:\d+\/)/.exec(out)?.[1];
+    expect(url).toBeDefined();
+    expect(lines.at(-1)).toBe(`No browser window: skipped at the user's request (FALCIFORM_BROWSER=none). Open ${url} in any browser. Ctrl-C to stop.`);
   });
 });

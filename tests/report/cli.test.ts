@@ -175,6 +175,14 @@ describe('falciform report options and errors', () => {
     expect(ids[0]).not.toBe(ids[1]);
   });
 
+  it('FALCIFORM_BROWSER=none writes no PDF and says it was skipped at the user\'s request', () => {
+    const out = join(dir, 'no-browser');
+    const r = spawnSync(process.execPath, ['bin/falciform.js', 'report', MANIFEST, '--out', out], { encoding: 'utf8', env: { ...process.env, FALCIFORM_BROWSER: 'none' } });
+    expect(r.status).toBe(0);
+    expect(existsSync(join(out, 'board-summary.pdf'))).toBe(false);
+    expect(r.stdout).toContain('board-summary.pdf not made: skipped at the user\'s request (FALCIFORM_BROWSER=none)');
+  });
+
   it('a missing scan is bad input: exit 3, one line naming the file', () => {
     const copy = join(dir, 'broken');
     cpSync('demo-data/DEMO-0001', copy, { recursive: true });

@@ -22,7 +22,7 @@ import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js
 import type { Command } from '../commands.js';
 import { readTextFile, writeFileAtomic } from '../node-io.js';
 import { diskFiles, followupOfPatient } from '../patient.js';
-import { findBrowser, printToPdf } from '../print-pdf.js';
+import { findBrowser, noBrowserReason, printToPdf } from '../print-pdf.js';
 
 const USAGE =
   'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key KEY] [--resection NAME] [--no-pdf]';
@@ -93,7 +93,7 @@ export const report: Command = {
     if (!args.options.has('no-pdf')) {
       const browser = findBrowser();
       if (!browser) {
-        notes.push('board-summary.pdf not made: no Chromium or Chrome found (set FALCIFORM_BROWSER to one); open board-summary.html and print it.');
+        notes.push(`board-summary.pdf not made: ${noBrowserReason()}; open board-summary.html and print it.`);
       } else {
         const pdfPath = join(outDir, 'board-summary.pdf');
         const tmp = join(outDir, `.board-summary.${randomBytes(6).toString('hex')}.pdf`);
