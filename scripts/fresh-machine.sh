@@ -48,6 +48,13 @@ if ls /etc/apt/sources.list.d/*.sources >/dev/null 2>&1; then
   cp /etc/apt/sources.list.d/*.sources "$root/etc/apt/sources.list.d/"
 fi
 cp /etc/resolv.conf "$root/etc/resolv.conf"
+# This machine's TLS trust (local CAs, such as a proxy's), as every machine of its kind has it.
+if ls /usr/local/share/ca-certificates/*.crt >/dev/null 2>&1; then
+  cp /usr/local/share/ca-certificates/*.crt "$root/usr/local/share/ca-certificates/"
+  chroot "$root" update-ca-certificates >/dev/null 2>&1
+fi
+trust_env=()
+[ -n "${NODE_EXTRA_CA_CERTS:-}" ] && trust_env+=(NODE_EXTRA_CA_CERTS=/etc/ssl/certs/ca-certificates.crt)
 printf '127.0.0.1 localhost\n::1 localhost ip6-localhost\n' >"$root/etc/hosts"
 node_bin="$(readlink -f "$(command -v node)")"
 npm_dir="$(dirname "$(dirname "$(readlink -f "$(command -v npm)")")")"
@@ -107,8 +114,9 @@ unshare --mount --pid --fork --mount-proc="$root/proc" bash -c '
   mount --rbind /dev "$1/dev"
   mount --rbind /sys "$1/sys"
   mount -t tmpfs -o mode=1777 tmpfs "$1/dev/shm"
-  exec chroot "$1" /usr/bin/env -i HOME=/root CI=true LANG=C.UTF-8 TERM=dumb \
-    PATH=/usr/local/bin:/usr/local/sbin:/usr/bin:/usr/sbin:/bin:/sbin bash /root/fresh-run.sh </dev/null' _ "$root"
+  root=$1; shift
+  exec chroot "$root" /usr/bin/env -i HOME=/root CI=true LANG=C.UTF-8 TERM=dumb \
+    PATH=/usr/local/bin:/usr/local/sbin:/usr/bin:/usr/sbin:/bin:/sbin "$@" bash /root/fresh-run.sh </dev/null' _ "$root" "${trust_env[@]}"
 rc=$?
 set -e
 took
