@@ -1,7 +1,9 @@
-import { cpSync, existsSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { copyFileSync, cpSync, existsSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join, resolve } from 'node:path';
 import { defineConfig, type Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
+import { SHIPPED_FONTS } from './src/report/fonts.ts';
 
 /**
  * Copies the generated demo patients (demo-data/, made at install) into the built app as demo/, so the
@@ -25,12 +27,27 @@ function demoPatients(): Plugin {
   };
 }
 
+/** Each shipped font's licence beside its font files in the built app (assets/). */
+function fontLicences(): Plugin {
+  const require = createRequire(import.meta.url);
+  return {
+    name: 'falciform-font-licences',
+    apply: 'build',
+    writeBundle(options) {
+      for (const font of SHIPPED_FONTS) {
+        const dir = dirname(require.resolve(`${font.pkg}/package.json`));
+        copyFileSync(join(dir, 'LICENSE'), join(options.dir!, 'assets', `${font.pkg.split('/')[1]}-LICENSE.txt`));
+      }
+    },
+  };
+}
+
 // The renderer is served from its own origin (falciform://app in Electron, 127.0.0.1 otherwise):
 // relative asset paths keep both working.
 export default defineConfig({
   root: 'renderer',
   base: './',
-  plugins: [react(), demoPatients()],
+  plugins: [react(), demoPatients(), fontLicences()],
   worker: { format: 'es' },
   build: { outDir: '../build/renderer', emptyOutDir: true, target: 'es2022', chunkSizeWarningLimit: 2000 },
 });

@@ -1,6 +1,7 @@
 import { Caution } from './components/Caution';
 import { RouteLink } from './components/RouteLink';
 import { useRoute } from './navigation';
+import { About } from './screens/About';
 import { PatientList } from './screens/PatientList';
 import { PatientWorkspace } from './screens/PatientWorkspace';
 import { VERSION } from '../src/version';
@@ -16,10 +17,12 @@ export function App() {
         </h1>
         <span className="tagline">Liver lesions by Couinaud segment, visit after visit</span>
         <span className="version">v{VERSION}</span>
+        <RouteLink to={{ screen: 'about' }} className="about-link">About</RouteLink>
       </header>
       <main className="app-main">
         {route.screen === 'patients' && <PatientList />}
-        {route.screen !== 'patients' && <PatientWorkspace key={route.patientId} route={route} />}
+        {route.screen === 'about' && <About />}
+        {(route.screen === 'patient' || route.screen === 'visit') && <PatientWorkspace key={route.patientId} route={route} />}
       </main>
       <footer className="app-footer">
         <Caution />

@@ -3,6 +3,7 @@ import { useEffect, useState } from 'react';
 /** Where the app is; kept in the address's hash so a reload (or a test) lands on the same screen. */
 export type Route =
   | { screen: 'patients' }
+  | { screen: 'about' }
   | { screen: 'patient'; patientId: string; tab?: string }
   | { screen: 'visit'; patientId: string; visitId: string; lesionId?: string };
 
@@ -10,6 +11,7 @@ export function parseRoute(hash: string): Route {
   const [path, query = ''] = hash.replace(/^#\/?/, '').split('?');
   const parts = path.split('/').filter(Boolean).map(decodeURIComponent);
   const params = new URLSearchParams(query);
+  if (parts[0] === 'about') return { screen: 'about' };
   if (parts[0] === 'patient' && parts[1]) {
     if (parts[2] === 'visit' && parts[3]) {
       const lesionId = params.get('lesion') ?? undefined;
@@ -24,6 +26,7 @@ export function parseRoute(hash: string): Route {
 export function routeHash(r: Route): string {
   const e = encodeURIComponent;
   if (r.screen === 'patient') return `#/patient/${e(r.patientId)}${r.tab ? `?tab=${e(r.tab)}` : ''}`;
+  if (r.screen === 'about') return '#/about';
   if (r.screen === 'visit') return `#/patient/${e(r.patientId)}/visit/${e(r.visitId)}${r.lesionId ? `?lesion=${e(r.lesionId)}` : ''}`;
   return '#/';
 }

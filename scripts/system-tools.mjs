@@ -29,7 +29,7 @@ function missingPythonModules(modules) {
 /** Debian package, what the suite uses it for, and how to tell it is there. */
 export const SYSTEM_TOOLS = [
   { pkg: 'chromium', why: 'end-to-end tests and the board PDF (/usr/bin/chromium)', present: () => existsSync('/usr/bin/chromium') },
-  { pkg: 'fonts-dejavu-core', why: 'the board page fit test with only a fallback font', present: () => existsSync('/usr/share/fonts/truetype/dejavu/DejaVuSans.ttf') },
+  { pkg: 'fonts-dejavu-core', why: 'the board page fit test with only a fallback font', present: () => existsSync('/usr/share/fonts/truetype/dejavu/DejaVuSansMono.ttf') },
   { pkg: 'python3-nibabel', why: 'NIfTI reference values (nibabel)', module: 'nibabel' },
   { pkg: 'python3-scipy', why: 'labelling and distance reference values (SciPy)', module: 'scipy' },
   { pkg: 'python3-skimage', why: 'region measure reference values (scikit-image)', module: 'skimage' },

@@ -13,7 +13,7 @@ import { VisitView } from './VisitView';
  * One patient open: the stored record and its analysis (run once in a worker, kept while the user
  * moves between the patient page and its visits) shared with the screens below.
  */
-export function PatientWorkspace({ route }: { route: Exclude<Route, { screen: 'patients' }> }) {
+export function PatientWorkspace({ route }: { route: Extract<Route, { patientId: string }> }) {
   const patientId = route.patientId;
   const [revision, setRevision] = useState(0);
   const [reloads, setReloads] = useState(0);

@@ -37,8 +37,11 @@ export function noBrowserReason(env: NodeJS.ProcessEnv = process.env): string {
 
 export const PRINT_TIMEOUT_MS = 90_000;
 
-/** Prints htmlFile to pdfFile; rejects with the reason in words when no PDF came out. */
-export async function printToPdf(browser: string, htmlFile: string, pdfFile: string, timeoutMs = PRINT_TIMEOUT_MS): Promise<void> {
+/**
+ * Prints htmlFile to pdfFile; rejects with the reason in words when no PDF came out. `env` is the
+ * browser's environment (a test gives it another font configuration).
+ */
+export async function printToPdf(browser: string, htmlFile: string, pdfFile: string, timeoutMs = PRINT_TIMEOUT_MS, env: NodeJS.ProcessEnv = process.env): Promise<void> {
   const profile = await mkdtemp(join(tmpdir(), 'falciform-print-'));
   const args = [
     '--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-extensions',
@@ -47,7 +50,7 @@ export async function printToPdf(browser: string, htmlFile: string, pdfFile: str
   ];
   try {
     await new Promise<void>((done, fail) => {
-      const child = spawn(browser, args, { stdio: ['ignore', 'ignore', 'pipe'] });
+      const child = spawn(browser, args, { stdio: ['ignore', 'ignore', 'pipe'], env });
       let err = '';
       child.stderr.on('data', (c: Buffer) => { if (err.length < 4000) err += c.toString(); });
       const timer = setTimeout(() => {

@@ -128,7 +128,7 @@ function lesionTable(s: BoardSummary): string {
       `<td>${r.target ? 'target' : 'non-target'}${r.newAt ? `, new at ${esc(r.newAt)}` : ''}</td>${r.cells.map(cellText).join('')}</tr>`,
   );
   return (
-    `<section><h2>Lesion tracks <span class="b-h2-note">lesion id and longest axial diameter (mm) per visit; ▲ margin alert</span></h2>` +
+    `<section><h2>Lesion tracks <span class="b-h2-note">lesion id and longest axial diameter (mm) per visit; <span class="b-mark"></span>margin alert</span></h2>` +
     `<table><thead><tr><th scope="col">Track</th><th scope="col">Segment</th><th scope="col">Role</th>${head}</tr></thead><tbody>` +
     (rows.length ? rows.join('') : `<tr><td colspan="${3 + t.visits.length}">No lesions at any visit.</td></tr>`) +
     `</tbody></table>` +
@@ -173,12 +173,15 @@ function remnantBlock(r: BoardRemnant | null): string {
   );
 }
 
-/** A complete HTML file: the page with its stylesheet, safe to open anywhere (its own CSP forbids scripts and fetches). */
-export function boardDocument(s: BoardSummary, page: PageSize): string {
+/**
+ * A complete HTML file: the page with its stylesheet and its fonts (`fontFaceCss`, the shipped fonts
+ * as data URLs), safe to open anywhere (its own CSP forbids scripts and fetches).
+ */
+export function boardDocument(s: BoardSummary, page: PageSize, fontFaceCss: string): string {
   return (
     `<!doctype html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n` +
-    `<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'">\n` +
-    `<title>Board summary ${esc(s.patient.label)}</title>\n<style>\n${boardCss(page)}\nhtml, body { margin: 0; background: #ffffff; }\n</style>\n</head>\n<body>\n` +
+    `<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; font-src data:">\n` +
+    `<title>Board summary ${esc(s.patient.label)}</title>\n<style>\n${fontFaceCss}\n${boardCss(page)}\nhtml, body { margin: 0; background: #ffffff; }\n</style>\n</head>\n<body>\n` +
     `${boardSheetHtml(s)}\n</body>\n</html>\n`
   );
 }

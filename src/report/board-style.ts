@@ -4,6 +4,8 @@
  * .board-sheet so the app's own screens are untouched. One page: the page is filled top to bottom
  * in small type, and the content is capped in the summary model, not clipped here.
  */
+import { MONO_FONT, SANS_FONT, fontStack } from './fonts.js';
+
 export type PageSize = 'A4' | 'Letter';
 
 export const PAGE_SIZES: readonly PageSize[] = ['A4', 'Letter'];
@@ -40,7 +42,7 @@ const BOARD_CSS = `
   --b-ink: #1d2327; --b-muted: #55616a; --b-line: #c9cfca; --b-soft: #f1f3f1; --b-warn: #fff2cc; --b-warn-ink: #5c4100;
   box-sizing: border-box; color: var(--b-ink); background: #ffffff;
   display: flex; flex-direction: column; min-height: ${SHEET_MIN_HEIGHT_MM}mm;
-  font-family: 'Liberation Sans', Arial, Helvetica, 'DejaVu Sans', sans-serif; font-size: 8.2pt; line-height: 1.22;
+  font-family: ${fontStack(SANS_FONT)}; font-size: 8.2pt; line-height: 1.22;
   -webkit-print-color-adjust: exact; print-color-adjust: exact;
 }
 .board-sheet *, .board-sheet *::before, .board-sheet *::after { box-sizing: border-box; }
@@ -48,11 +50,11 @@ const BOARD_CSS = `
 .board-sheet ul { list-style: none; }
 .board-sheet .b-head { display: flex; align-items: flex-end; gap: 4mm; border-bottom: 0.5mm solid var(--b-ink); padding-bottom: 1.2mm; }
 .board-sheet .b-kind { font-size: 7pt; letter-spacing: 0.08em; text-transform: uppercase; color: var(--b-muted); }
-.board-sheet h1 { font-size: 14pt; line-height: 1.1; font-family: 'Liberation Mono', 'DejaVu Sans Mono', monospace; }
+.board-sheet h1 { font-size: 14pt; line-height: 1.1; font-family: ${fontStack(MONO_FONT)}; }
 .board-sheet .b-facts { color: var(--b-muted); margin-top: 0.5mm; }
 .board-sheet .b-facts span + span::before { content: ' · '; }
 .board-sheet .b-made { margin-left: auto; text-align: right; color: var(--b-muted); white-space: nowrap; }
-.board-sheet .b-demo { margin-left: 1.5mm; font-family: 'Liberation Sans', Arial, sans-serif; font-size: 7pt; font-weight: normal; border: 0.2mm solid var(--b-line); border-radius: 1mm; padding: 0 1mm; vertical-align: middle; }
+.board-sheet .b-demo { margin-left: 1.5mm; font-family: ${fontStack(SANS_FONT)}; font-size: 7pt; font-weight: normal; border: 0.2mm solid var(--b-line); border-radius: 1mm; padding: 0 1mm; vertical-align: middle; }
 .board-sheet .b-caution { margin: 1.5mm 0; padding: 1mm 2mm; background: var(--b-warn); color: var(--b-warn-ink); border-left: 1mm solid var(--b-warn-ink); font-weight: bold; }
 .board-sheet .b-pseudonym { margin: 0 0 1.5mm; padding: 0.8mm 2mm; border: 0.2mm dashed var(--b-muted); }
 .board-sheet .b-headline { display: flex; flex-wrap: wrap; align-items: baseline; gap: 1mm 3mm; margin-bottom: 1.5mm; }
@@ -67,7 +69,7 @@ const BOARD_CSS = `
 .board-sheet .b-col-diagram { flex: 1 1 0; min-width: 0; }
 .board-sheet .b-col-half { flex: 1 1 0; min-width: 0; }
 .board-sheet svg { display: block; width: 100%; height: auto; }
-.board-sheet svg text { font-family: 'Liberation Sans', Arial, Helvetica, 'DejaVu Sans', sans-serif; fill: var(--b-ink); }
+.board-sheet svg text { font-family: ${fontStack(SANS_FONT)}; fill: var(--b-ink); }
 .board-sheet svg .tick { font-size: 10px; }
 .board-sheet svg .axis-title { font-size: 10px; fill: var(--b-muted); }
 .board-sheet svg .legend { font-size: 10px; }
@@ -80,7 +82,10 @@ const BOARD_CSS = `
 .board-sheet .nw { white-space: nowrap; }
 .board-sheet .b-cat { font-weight: bold; }
 .board-sheet .b-alert { font-weight: bold; }
-.board-sheet .b-alert::before { content: '▲ '; font-size: 6pt; }
+/* The alert mark is drawn, not a character: the shipped fonts have no triangle glyph, and a glyph taken
+   from a machine font would make the page depend on that machine. */
+.board-sheet .b-alert::before, .board-sheet .b-mark { content: ''; display: inline-block; width: 0; height: 0; margin-right: 0.8mm;
+  border-left: 0.75mm solid transparent; border-right: 0.75mm solid transparent; border-bottom: 1.3mm solid currentColor; vertical-align: 0.05em; }
 .board-sheet .b-muted { color: var(--b-muted); }
 .board-sheet .b-left-out { color: var(--b-muted); font-style: italic; margin-top: 0.4mm; }
 .board-sheet .b-list li { padding: 0.25mm 0; border-bottom: 0.2mm solid var(--b-line); }

@@ -1,10 +1,12 @@
 import { spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { findBrowser, printToPdf } from '../../src/cli/print-pdf.js';
 import { buildBoardSummary } from '../../src/report/board-summary.js';
+import { embeddedFontCss } from '../../src/cli/fonts.js';
 import { boardDocument } from '../../src/report/board-html.js';
 import type { PageSize } from '../../src/report/board-style.js';
 import { keyedPseudonym } from '../../src/report/pseudonym.js';
@@ -19,6 +21,57 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 const EXPECTED: Record<PageSize, [number, number]> = { A4: [595, 842], Letter: [612, 792] };
 
+/**
+ * Two machines' font settings: this machine's fontconfig as it is, and one that offers a single font,
+ * DejaVu Sans Mono (Debian's fonts-dejavu-core), wider than any proportional face, with the system's rendering rules (/etc/fonts/conf.d: hinting, antialiasing) kept so that
+ * only the fonts on offer differ. The page embeds its own fonts, so neither may change it.
+ */
+const FONT_SETTINGS = [
+  { name: 'machine-fonts', env: () => process.env },
+  { name: 'one-fallback-font', env: oneFontEnv },
+];
+
+function oneFontEnv(): NodeJS.ProcessEnv {
+  const folder = join(dir, 'one-font');
+  const conf = join(dir, 'one-font.conf');
+  if (!existsSync(conf)) {
+    mkdirSync(folder);
+    symlinkSync('/usr/share/fonts/truetype/dejavu/DejaVuSansMono.ttf', join(folder, 'DejaVuSansMono.ttf'));
+    writeFileSync(conf, `<?xml version="1.0"?>\n<!DOCTYPE fontconfig SYSTEM "fonts.dtd">\n<fontconfig><dir>${folder}</dir><include ignore_missing="yes">/etc/fonts/conf.d</include><cachedir>${join(dir, 'fc-cache')}</cachedir></fontconfig>\n`);
+  }
+  return { ...process.env, FONTCONFIG_FILE: conf };
+}
+
+/** The crowded page's HTML file: 11 visits, 16 lesion tracks, alerts, warnings, a remnant line, a pseudonym note. */
+async function crowdedPage(page: PageSize): Promise<string> {
+  const html = join(dir, `crowded-${page}.html`);
+  const input = syntheticPatient({ visits: 11, lesions: 16, oddTreatment: true, remnant: true });
+  const pseudonym = await keyedPseudonym('SYN-0001', 'trial key');
+  writeFileSync(html, boardDocument(buildBoardSummary(input, { madeAt: new Date(Date.UTC(2026, 11, 1, 9, 30)), pseudonym }), page, embeddedFontCss()));
+  return html;
+}
+
+/** pdffonts' table: each font's name and whether it is embedded. */
+function pdfFonts(pdf: string): { name: string; type: string; embedded: boolean }[] {
+  const out = spawnSync('pdffonts', [pdf], { encoding: 'utf8' }).stdout.split('\n').slice(2).filter((l) => l.trim());
+  // Columns: name type encoding emb sub uni object ID; the type may hold a space ("CID TrueType").
+  return out.map((l) => {
+    const cols = l.trim().split(/\s+/);
+    return { name: cols[0], type: cols.slice(1, -6).join(' '), embedded: cols[cols.length - 5] === 'yes' };
+  });
+}
+
+/** A headless Chromium screenshot of the page at A4 width, 96 dpi, under the given environment. */
+function screenshot(html: string, png: string, env: NodeJS.ProcessEnv): Buffer {
+  const profile = mkdtempSync(join(dir, 'profile-'));
+  const r = spawnSync('/usr/bin/chromium', [
+    '--headless', '--no-sandbox', '--disable-gpu', '--hide-scrollbars', '--force-device-scale-factor=1', '--window-size=794,1123',
+    `--user-data-dir=${profile}`, `--screenshot=${resolve(png)}`, pathToFileURL(html).href,
+  ], { env, encoding: 'utf8', timeout: 90_000 });
+  if (r.status !== 0) throw new Error(`chromium --screenshot failed: ${r.stderr}`);
+  return readFileSync(png);
+}
+
 describe('board summary page fit', () => {
   const browser = findBrowser({});
   it('finds Debian\'s Chromium, and FALCIFORM_BROWSER overrides the search', () => {
@@ -29,19 +82,41 @@ describe('board summary page fit', () => {
   });
 
   for (const page of ['A4', 'Letter'] as const) {
-    it(`a crowded patient still fits one ${page} page`, async () => {
-      const input = syntheticPatient({ visits: 11, lesions: 16, oddTreatment: true, remnant: true });
-      const html = join(dir, `crowded-${page}.html`);
-      const pseudonym = await keyedPseudonym('SYN-0001', 'trial key');
-      writeFileSync(html, boardDocument(buildBoardSummary(input, { madeAt: new Date(Date.UTC(2026, 11, 1, 9, 30)), pseudonym }), page));
-      const pdf = join(dir, `crowded-${page}.pdf`);
-      await printToPdf(browser!, html, pdf);
-      const info = pdfInfo(pdf);
-      mkdirSync('test-results', { recursive: true });
-      spawnSync('pdftoppm', ['-png', '-r', '60', '-singlefile', pdf, `test-results/board-crowded-${page}`]);
-      expect(info.pages).toBe(1);
-      expect(info.widthPt).toBeCloseTo(EXPECTED[page][0], -0.5);
-      expect(info.heightPt).toBeCloseTo(EXPECTED[page][1], -0.5);
-    });
+    for (const fonts of FONT_SETTINGS) {
+      it(`a crowded patient still fits one ${page} page (${fonts.name})`, async () => {
+        const pdf = join(dir, `crowded-${page}-${fonts.name}.pdf`);
+        await printToPdf(browser!, await crowdedPage(page), pdf, undefined, fonts.env());
+        const info = pdfInfo(pdf);
+        mkdirSync('test-results', { recursive: true });
+        spawnSync('pdftoppm', ['-png', '-r', '60', '-singlefile', pdf, `test-results/board-crowded-${page}-${fonts.name}`]);
+        expect(info.pages).toBe(1);
+        expect(info.widthPt).toBeCloseTo(EXPECTED[page][0], -0.5);
+        expect(info.heightPt).toBeCloseTo(EXPECTED[page][1], -0.5);
+        // Every font in the PDF is embedded and is one the project ships (pdffonts, poppler-utils).
+        // Chromium writes text drawn with an outline (the diagram's label halo) as a Type 3 font of
+        // glyph outlines, which has no name; the pixel comparisons below show it is the same font.
+        const fontsUsed = pdfFonts(pdf);
+        const named = fontsUsed.filter((f) => f.type !== 'Type 3').map((f) => f.name.replace(/^[A-Z]{6}\+/, ''));
+        expect(named).toContain('AtkinsonHyperlegibleNext-Regular');
+        expect(named).toContain('AtkinsonHyperlegibleNext-Bold');
+        expect(named.filter((n) => !/^AtkinsonHyperlegible(Next|Mono)/.test(n))).toEqual([]);
+        expect(fontsUsed.every((f) => f.embedded)).toBe(true);
+      });
+    }
   }
+
+  it('the printed page is the same pixel for pixel under both font settings', () => {
+    for (const page of ['A4', 'Letter'] as const) {
+      const [a, b] = FONT_SETTINGS.map((fonts) => readFileSync(`test-results/board-crowded-${page}-${fonts.name}.png`));
+      expect(a.length).toBeGreaterThan(10_000);
+      expect(b.equals(a)).toBe(true);
+    }
+  });
+
+  it('the page on screen is the same pixel for pixel under both font settings', async () => {
+    const html = await crowdedPage('A4');
+    const shots = FONT_SETTINGS.map((fonts) => screenshot(html, `test-results/board-crowded-screen-${fonts.name}.png`, fonts.env()));
+    expect(shots[0].length).toBeGreaterThan(10_000);
+    expect(shots[1].equals(shots[0])).toBe(true);
+  });
 });

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { embeddedFontCss } from '../../src/cli/fonts.js';
 import { boardDocument, boardSheetHtml } from '../../src/report/board-html.js';
 import { buildBoardSummary } from '../../src/report/board-summary.js';
 import { esc } from '../../src/report/html-escape.js';
@@ -34,9 +35,12 @@ describe('HTML escaping', () => {
     expect(html).toContain('&lt;img src=x onerror=&quot;alert(1)&quot;&gt;&#39;&amp;&quot;&lt;/p&gt;&lt;script&gt;');
   });
 
-  it('the printed file has no scripts and loads nothing', () => {
-    const doc = boardDocument(buildBoardSummary(syntheticPatient({ visits: 2, lesions: 2 }), { madeAt: new Date(0) }), 'A4');
-    expect(doc).not.toMatch(/<script|<link|<iframe|<img|\ssrc=|\shref=|url\(/i);
+  it('the printed file has no scripts and loads nothing: its fonts are inlined', () => {
+    const doc = boardDocument(buildBoardSummary(syntheticPatient({ visits: 2, lesions: 2 }), { madeAt: new Date(0) }), 'A4', embeddedFontCss());
+    // The only URLs are the shipped fonts, inlined as data.
+    const fonts = /url\(data:font\/woff2;base64,[A-Za-z0-9+/=]+\)/g;
+    expect(doc.match(fonts)?.length).toBe(10);
+    expect(doc.replace(fonts, '')).not.toMatch(/<script|<link|<iframe|<img|\ssrc=|\shref=|url\(/i);
     expect(doc).toContain("default-src 'none'");
     expect(doc).toMatch(/@page \{ size: A4 portrait;/);
   });

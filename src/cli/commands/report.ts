@@ -22,6 +22,7 @@ import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js
 import type { Command } from '../commands.js';
 import { readTextFile, writeFileAtomic } from '../node-io.js';
 import { diskFiles, followupOfPatient } from '../patient.js';
+import { embeddedFontCss } from '../fonts.js';
 import { findBrowser, noBrowserReason, printToPdf } from '../print-pdf.js';
 
 const USAGE =
@@ -87,7 +88,7 @@ export const report: Command = {
     if (remnant) remnant.warnings.forEach((w) => notes.push(`remnant: ${w}`));
     const summary = buildBoardSummary(input, { madeAt: new Date(), pseudonym });
     const htmlPath = join(outDir, 'board-summary.html');
-    await put('board-summary.html', utf8(boardDocument(summary, page)));
+    await put('board-summary.html', utf8(boardDocument(summary, page, embeddedFontCss())));
     await put('case-form.csv', utf8(caseFormCsv(caseFormRows(input, pseudonym?.id ?? manifest.patient.id))));
 
     if (!args.options.has('no-pdf')) {
