@@ -1,9 +1,11 @@
 import { CAUTION } from '../caution.js';
 import { CASE_FORM_COLUMNS, type CaseFormRow } from '../report/case-form.js';
-import { toCsv } from '../report/csv.js';
+import { toCsv, utf8 } from '../report/csv.js';
 import { caseFormDictionary, DICTIONARY_COLUMNS } from './dictionary.js';
 import type { PatientResult } from './result.js';
-import { addPatientSdtm, emptySdtm, RS_COLUMNS, SUPPTU_COLUMNS, TR_COLUMNS, TU_COLUMNS } from './sdtm.js';
+import { VERSION } from '../version.js';
+import { addPatientSdtm, emptySdtm, SDTM_DATASETS, SDTM_LABELS, SDTM_NUMERIC } from './sdtm.js';
+import { xportFile } from './xport.js';
 
 /**
  * The cohort tables from every patient's stored result: the case form, its data dictionary, the
@@ -32,10 +34,11 @@ export type PatientStatus = 'done' | 'unchanged' | 'failed' | 'not-run';
 export interface CohortFile {
   /** Relative to the batch's output folder. */
   name: string;
-  text: string;
+  bytes: Uint8Array;
 }
 
-export function mergeCohort(entries: readonly CohortEntry[], studyId: string): { files: CohortFile[]; status: StatusRow[] } {
+/** `made` stamps the XPORT files' headers; every other file depends on the results alone. */
+export function mergeCohort(entries: readonly CohortEntry[], studyId: string, made: Date): { files: CohortFile[]; status: StatusRow[] } {
   const sorted = [...entries].sort((a, b) => (a.manifest < b.manifest ? -1 : a.manifest > b.manifest ? 1 : 0));
   const status: StatusRow[] = [];
   const caseForm: CaseFormRow[] = [];
@@ -66,16 +69,19 @@ export function mergeCohort(entries: readonly CohortEntry[], studyId: string): {
     addPatientSdtm(sdtm, studyId, r);
     status.push(row(r.lastRun === 'unchanged' ? 'unchanged' : 'done', '', r.caseForm.length));
   }
+  const csv = (name: string, text: string): CohortFile => ({ name, bytes: utf8(text) });
   const files: CohortFile[] = [
-    { name: 'case-form.csv', text: toCsv(CASE_FORM_COLUMNS, caseForm) },
-    { name: 'case-form-dictionary.csv', text: toCsv(DICTIONARY_COLUMNS, caseFormDictionary()) },
-    { name: 'status.csv', text: toCsv(STATUS_COLUMNS, status) },
-    { name: 'sdtm/tu.csv', text: toCsv(TU_COLUMNS, sdtm.tu) },
-    { name: 'sdtm/tr.csv', text: toCsv(TR_COLUMNS, sdtm.tr) },
-    { name: 'sdtm/rs.csv', text: toCsv(RS_COLUMNS, sdtm.rs) },
-    { name: 'sdtm/supptu.csv', text: toCsv(SUPPTU_COLUMNS, sdtm.supptu) },
-    { name: 'README.txt', text: readme(studyId, status) },
+    csv('case-form.csv', toCsv(CASE_FORM_COLUMNS, caseForm)),
+    csv('case-form-dictionary.csv', toCsv(DICTIONARY_COLUMNS, caseFormDictionary())),
+    csv('status.csv', toCsv(STATUS_COLUMNS, status)),
   ];
+  for (const d of SDTM_DATASETS) {
+    const rows: readonly Record<string, string>[] = sdtm[d.key];
+    files.push(csv(`sdtm/${d.key}.csv`, toCsv<string>(d.columns, rows)));
+    const variables = d.columns.map((c) => ({ name: c, label: SDTM_LABELS[c] ?? '', type: SDTM_NUMERIC.has(c) ? ('num' as const) : ('char' as const) }));
+    files.push({ name: `sdtm/${d.key}.xpt`, bytes: xportFile({ name: d.name, label: d.label, variables, rows }, made, { version: VERSION, os: 'FALCIFRM' }) });
+  }
+  files.push(csv('README.txt', readme(studyId, status)));
   return { files, status };
 }
 
@@ -88,8 +94,8 @@ function readme(studyId: string, status: readonly StatusRow[]): string {
     'case-form.csv             one row per lesion per visit, as falciform report writes it per patient',
     'case-form-dictionary.csv  what each case-form column holds',
     'status.csv                one row per patient: done, unchanged, failed (with the reason) or not-run',
-    'sdtm/tu.csv, tr.csv, rs.csv, supptu.csv',
-    '                          the same data in the CDISC SDTM tumour domains (SDTMIG v3.4, from memory)',
+    'sdtm/tu, tr, rs, supptu  the same data in the CDISC SDTM tumour domains (SDTMIG v3.4, from memory),',
+    '                          each as CSV and as SAS XPORT version 5 (.xpt)',
     '',
     CAUTION,
     '',

@@ -1,4 +1,5 @@
-import type { OverallCategory, NonTargetCategory, TargetCategory } from '../followup/recist.js';
+import type { OverallCategory } from '../followup/recist.js';
+import type { VisitResponse } from '../followup/response.js';
 import { caseFormRows, CASE_FORM_COLUMNS, type CaseFormRow } from '../report/case-form.js';
 import type { ReportInput } from '../report/input.js';
 
@@ -6,17 +7,13 @@ import type { ReportInput } from '../report/input.js';
  * One patient's outcome in a batch, kept as one JSON file per patient (written whole or not at all),
  * so a killed batch knows which patients are finished and the merge needs nothing else.
  */
-export interface VisitResponseRecord {
+export interface VisitResponseRecord extends Pick<VisitResponse, 'criteria' | 'newLesion' | 'targets'> {
   visit: string;
   date: string;
-  criteria: string;
   /** null at baseline. */
   overall: OverallCategory | null;
-  target: TargetCategory | 'none' | null;
-  nonTarget: NonTargetCategory | null;
-  newLesion: boolean;
-  /** Each target's diameter as RECIST records it (null: not evaluable), which the target sum adds up. */
-  targets: { track: string; recordedMm: number | null }[];
+  target: VisitResponse['targetCategory'];
+  nonTarget: VisitResponse['nonTargetCategory'];
 }
 
 export interface PatientResult {

@@ -153,3 +153,32 @@ function trackStatus(rows: readonly CaseFormRow[], track: string): string | null
   if (mine.length === 0) return null;
   return mine.some((r) => r.status === 'present') ? 'present' : mine[0].status;
 }
+
+/**
+ * Dataset and variable labels for the XPORT files (SDTMIG v3.4, from memory), and which variables
+ * are numeric there (--SEQ, VISITNUM, TRSTRESN); every other variable is character.
+ */
+export const SDTM_DATASETS = [
+  { key: 'tu', name: 'TU', label: 'Tumor/Lesion Identification', columns: TU_COLUMNS },
+  { key: 'tr', name: 'TR', label: 'Tumor/Lesion Results', columns: TR_COLUMNS },
+  { key: 'rs', name: 'RS', label: 'Disease Response and Clin Classification', columns: RS_COLUMNS },
+  { key: 'supptu', name: 'SUPPTU', label: 'Supplemental Qualifiers for TU', columns: SUPPTU_COLUMNS },
+] as const;
+
+export const SDTM_NUMERIC = new Set(['TUSEQ', 'TRSEQ', 'RSSEQ', 'VISITNUM', 'TRSTRESN']);
+
+export const SDTM_LABELS: Record<string, string> = {
+  STUDYID: 'Study Identifier', DOMAIN: 'Domain Abbreviation', USUBJID: 'Unique Subject Identifier',
+  VISITNUM: 'Visit Number', VISIT: 'Visit Name',
+  TUSEQ: 'Sequence Number', TULNKID: 'Link ID', TUTESTCD: 'Tumor/Lesion ID Short Name', TUTEST: 'Tumor/Lesion ID Test Name',
+  TUORRES: 'Tumor/Lesion ID Result', TUSTRESC: 'Tumor/Lesion ID Result Std. Format', TULOC: 'Location of the Tumor/Lesion',
+  TUDTC: 'Date/Time of Tumor/Lesion Identification',
+  TRSEQ: 'Sequence Number', TRGRPID: 'Group ID', TRLNKID: 'Link ID', TRTESTCD: 'Tumor/Lesion Assessment Short Name',
+  TRTEST: 'Tumor/Lesion Assessment Test Name', TRORRES: 'Result or Finding in Original Units', TRORRESU: 'Original Units',
+  TRSTRESC: 'Character Result/Finding in Std Format', TRSTRESN: 'Numeric Result/Finding in Standard Units',
+  TRSTRESU: 'Standard Units', TRSTAT: 'Completion Status', TRREASND: 'Reason Not Done', TRDTC: 'Date/Time of Tumor/Lesion Measurement',
+  RSSEQ: 'Sequence Number', RSTESTCD: 'Assessment Short Name', RSTEST: 'Assessment Name', RSCAT: 'Category for Assessment',
+  RSORRES: 'Result or Finding in Original Units', RSSTRESC: 'Character Result/Finding in Std Format', RSDTC: 'Date/Time of Assessment',
+  RDOMAIN: 'Related Domain Abbreviation', IDVAR: 'Identifying Variable', IDVARVAL: 'Identifying Variable Value',
+  QNAM: 'Qualifier Variable Name', QLABEL: 'Qualifier Variable Label', QVAL: 'Data Value', QORIG: 'Origin',
+};

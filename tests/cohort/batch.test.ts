@@ -114,6 +114,21 @@ describe('falciform batch', () => {
     }
   }, 120_000);
 
+  it('writes each SDTM table as SAS XPORT v5 too, read back by pandas (python3-pandas) with the CSV’s rows', () => {
+    for (const name of ['tu', 'tr', 'rs', 'supptu']) {
+      const rows = csv(join(first, `sdtm/${name}.csv`));
+      const r = spawnSync('/usr/bin/python3', ['tests/reference/xport_read.py', join(first, `sdtm/${name}.xpt`)], { encoding: 'utf8' });
+      expect(r.status, r.stderr).toBe(0);
+      const got = JSON.parse(r.stdout) as { name: string; variables: { name: string; type: string }[]; rows: (string | number | null)[][] };
+      expect(got.name).toBe(name.toUpperCase());
+      expect(got.variables.map((v) => v.name)).toEqual(Object.keys(rows[0]));
+      const asCsv = got.rows.map((row) =>
+        Object.fromEntries(got.variables.map((v, k) => [v.name, row[k] === null ? '' : v.type === 'numeric' ? String(row[k]) : String(row[k])])),
+      );
+      expect(asCsv).toEqual(rows);
+    }
+  }, 60_000);
+
   it('reruns only what changed: finished patients with unchanged inputs are skipped, a changed one is recomputed', () => {
     const out = join(dir, 'out-rerun');
     cpSync(first, out, { recursive: true });

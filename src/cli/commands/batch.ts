@@ -7,7 +7,6 @@ import { mergeCohort, type CohortEntry } from '../../cohort/merge.js';
 import { parsePatientResult, resultFileName } from '../../cohort/result.js';
 import { parseShard, shareOf, type Shard } from '../../cohort/share.js';
 import { badFile } from '../../errors.js';
-import { utf8 } from '../../report/csv.js';
 import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { BatchOutcome, BatchTask } from '../batch-worker.js';
 import { findManifests, patientInputs } from '../cohort-files.js';
@@ -76,8 +75,8 @@ export const batch: Command = {
         const result = await readFile(join(patientsDir, resultFileName(m)), 'utf8').then(parsePatientResult, () => null);
         entries.push({ manifest: m, result, currentSha256: known.get(m) ?? (await patientInputs(join(root, m))).sha256 });
       }
-      const { files, status } = mergeCohort(entries, study);
-      for (const f of files) await writeFileAtomic(join(out, f.name), utf8(f.text));
+      const { files, status } = mergeCohort(entries, study, new Date());
+      for (const f of files) await writeFileAtomic(join(out, f.name), f.bytes);
       const notRun = status.filter((s) => s.status === 'not-run').length;
       lines.push(`Cohort tables for ${status.length} patient(s) in ${out}: ${files.map((f) => f.name).join(', ')}.`);
       if (notRun) lines.push(`${notRun} patient(s) not run yet (status.csv); run their shares, then --merge-only again.`);
