@@ -94,7 +94,7 @@ function readme(studyId: string, status: readonly StatusRow[]): string {
     'case-form.csv             one row per lesion per visit, as falciform report writes it per patient',
     'case-form-dictionary.csv  what each case-form column holds',
     'status.csv                one row per patient: done, unchanged, failed (with the reason) or not-run',
-    'sdtm/tu, tr, rs, supptu  the same data in the CDISC SDTM tumour domains (SDTMIG v3.4, from memory),',
+    'sdtm/tu, tr, rs, supptu   the same data in the CDISC SDTM tumour domains (SDTMIG v3.4, from memory),',
     '                          each as CSV and as SAS XPORT version 5 (.xpt)',
     '',
     CAUTION,
