@@ -51,7 +51,8 @@ export const batch: Command = {
     } catch (e) {
       throw badFile(out, `the output folder cannot be made: ${e instanceof Error ? e.message : String(e)}`);
     }
-    await removeLeftovers(patientsDir);
+    // Only a run that owns the whole folder clears temporary files: a shard's may be another task's, mid-write.
+    if (!shard && !mergeOnly) await removeLeftovers(patientsDir);
 
     const share = shard ? shareOf(manifests, shard) : manifests;
     const known = new Map<string, string>();
