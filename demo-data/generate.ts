@@ -24,7 +24,7 @@ const DIMS: Record<string, [number, number, number]> = {
 };
 
 /** mulberry32: small, fast, and the same numbers on every platform. */
-function rng(seed: number): () => number {
+export function rng(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
     a = (a + 0x6d2b79f5) >>> 0;
@@ -56,8 +56,8 @@ function bodyToWorld(m: DemoVisit['motion']): number[] {
 }
 
 /** The scanner grid: centred on the body, optionally stored right-to-left and tilted about x. */
-function scannerAffine(p: DemoPatient): number[] {
-  const [nx, ny, nz] = DIMS[p.id];
+function scannerAffine(p: DemoPatient, dims: [number, number, number]): number[] {
+  const [nx, ny, nz] = dims;
   const [dx, dy, dz] = p.spacingMm;
   const sx = p.flipX ? -dx : dx;
   const c = Math.cos(rad(p.tiltDeg)), s = Math.sin(rad(p.tiltDeg));
@@ -93,11 +93,13 @@ function json(path: string, value: unknown): void {
   writeFileSync(path, `${JSON.stringify(value, null, 2)}\n`);
 }
 
-async function writeVisit(p: DemoPatient, vi: number, outDir: string, random: () => number): Promise<Record<string, unknown>> {
+/** Writes one visit's files under outDir/<visit id>/ and returns its manifest entry; `dims` is the scanner grid. */
+export async function writeVisit(
+  p: DemoPatient, vi: number, outDir: string, random: () => number, dims: [number, number, number] = DIMS[p.id],
+): Promise<Record<string, unknown>> {
   const visit = p.visits[vi];
-  const dims = DIMS[p.id];
   const [nx, ny, nz] = dims;
-  const affine = scannerAffine(p);
+  const affine = scannerAffine(p, dims);
   const toWorld = bodyToWorld(visit.motion);
   const toBody = multiply(invertAffine(toWorld), affine); // voxel → body
   const noise = gaussian(random);

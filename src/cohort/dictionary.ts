@@ -1,0 +1,46 @@
+import { CASE_FORM_COLUMNS, type CaseFormColumn } from '../report/case-form.js';
+
+/**
+ * The cohort case form's data dictionary as a table (variable, type, unit, meaning), written beside
+ * the CSV so the file a data manager receives explains itself. docs/case-form.md says the same at
+ * length; keep the two together.
+ */
+type Entry = [type: 'text' | 'number' | 'integer' | 'date' | 'yes/no', unit: string, meaning: string];
+
+const ENTRIES: Record<CaseFormColumn, Entry> = {
+  patient: ['text', '', 'Patient id from the manifest, or the pseudonym of a pseudonymised export'],
+  visit: ['text', '', 'Visit id from the manifest'],
+  date: ['date', '', 'Visit date, ISO 8601 (YYYY-MM-DD)'],
+  days_from_baseline: ['integer', 'days', 'Whole days from the first (baseline) visit; 0 at baseline'],
+  track: ['text', '', 'Lesion track id: the same lesion followed over visits'],
+  lesion: ['text', '', "The lesion's id at this visit; empty on a row for an absent track"],
+  status: ['text', '', 'present, or for an absent track gone, merged or not-evaluable'],
+  source: ['text', '', 'mask (measured from a lesion mask) or mark (a manual mark)'],
+  segment: ['text', '', "Couinaud segment holding the lesion's centroid (I-VIII, IVa/IVb), or outside"],
+  segment_fractions: ['text', '', "Share of the lesion's voxels per segment, segment:share pairs joined by ;"],
+  longest_axial_mm: ['number', 'mm', 'Longest axial diameter (RECIST longest diameter); 0 for a gone or merged track; empty when not evaluable'],
+  short_axis_mm: ['number', 'mm', 'Extent perpendicular to the longest diameter in the same slice'],
+  volume_ml: ['number', 'mL', 'Lesion volume (voxel count x voxel volume); empty for a mark'],
+  margin_mm: ['number', 'mm', 'Shortest distance to another segment; 0 when spanning segments; empty beyond three times the set margin'],
+  nearest_other_segment: ['text', '', 'The segment margin_mm is measured to'],
+  margin_alert: ['yes/no', '', 'yes when margin_mm is below the set margin'],
+  set_margin_mm: ['number', 'mm', "The patient's set margin (default 10)"],
+  target: ['yes/no', '', "yes when the lesion's track is a target lesion under criteria"],
+  new_lesion: ['yes/no', '', 'yes at the visit where a track first appears after baseline'],
+  response: ['text', '', 'Overall response at the visit: CR, PR, SD, PD, NE or non-CR/non-PD; empty at baseline'],
+  criteria: ['text', '', 'RECIST 1.1 or mRECIST'],
+  target_sum_mm: ['number', 'mm', "Sum of the target lesions' recorded diameters at the visit"],
+  change_from_baseline_pct: ['number', '%', 'Change of the target sum from baseline; empty at baseline'],
+  change_from_nadir_pct: ['number', '%', 'Change of the target sum from its smallest value so far; empty at baseline'],
+  software: ['text', '', 'Falciform and its version'],
+  caution: ['text', '', 'The clinical caution, on every row'],
+};
+
+export const DICTIONARY_COLUMNS = ['variable', 'type', 'unit', 'meaning'] as const;
+
+export function caseFormDictionary(): Record<(typeof DICTIONARY_COLUMNS)[number], string>[] {
+  return CASE_FORM_COLUMNS.map((c) => {
+    const [type, unit, meaning] = ENTRIES[c];
+    return { variable: c, type, unit, meaning };
+  });
+}
