@@ -33,6 +33,7 @@ export const SYSTEM_TOOLS = [
   { pkg: 'python3-nibabel', why: 'NIfTI reference values (nibabel)', module: 'nibabel' },
   { pkg: 'python3-scipy', why: 'labelling and distance reference values (SciPy)', module: 'scipy' },
   { pkg: 'python3-skimage', why: 'region measure reference values (scikit-image)', module: 'skimage' },
+  { pkg: 'python3-pandas', why: 'reading the SAS XPORT cohort tables back (pandas read_sas)', module: 'pandas' },
   { pkg: 'python3-pydicom', why: 'DICOM reference values (pydicom)', module: 'pydicom' },
   { pkg: 'dcm2niix', why: 'DICOM-to-NIfTI reference conversions', present: () => onPath('dcm2niix') },
   { pkg: 'poppler-utils', why: 'PDF pages, text and fonts (pdfinfo, pdftotext, pdffonts)', present: () => ['pdfinfo', 'pdftotext', 'pdffonts'].every(onPath) },
