@@ -1,4 +1,5 @@
 import { analyze } from './commands/analyze.js';
+import { convert } from './commands/convert.js';
 import { followup } from './commands/followup.js';
 import { inspect } from './commands/inspect.js';
 import { report } from './commands/report.js';
@@ -11,4 +12,4 @@ export interface Command {
   run(argv: readonly string[]): Promise<void>;
 }
 
-export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report };
+export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report, convert };
