@@ -89,8 +89,9 @@ function problemText(e: unknown): string {
 }
 
 function damaged(file: string, e: unknown) {
-  const why = problemText(e).replace(/^dicomParser\.\w+:\s*/, '');
-  return badFile(file, `is a damaged or cut-short DICOM file (${why})`);
+  const why = problemText(e).replace(/^dicomParser[.:]\w+:\s*/, '');
+  if (/overrun|end of buffer|past the end/i.test(why)) return badFile(file, 'is cut short: its DICOM data runs past the end of the file');
+  return badFile(file, `is a damaged DICOM file (${why})`);
 }
 
 /**
