@@ -25,11 +25,12 @@ export function pixelProblem(info: DicomFileInfo): string | undefined {
 }
 
 /**
- * The stored values of one frame, in DICOM order (columns fastest, which is NIfTI's i), as a fresh
- * typed array of the stored type. Native pixel data is copied out of the file so the file's bytes can
- * be released; big-endian data is swapped to the platform's order.
+ * The stored values of one frame, in DICOM order (columns fastest, which is NIfTI's i), as a typed
+ * array of the stored type: written into `into` (the frame's bytes inside a volume) when given, else
+ * into a fresh buffer. Pixel data is copied out of the file so the file's bytes can be released;
+ * big-endian data is swapped to the platform's order.
  */
-export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, frame: number): VoxelArray {
+export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, frame: number, into?: Uint8Array): VoxelArray {
   const { info, dataSet } = parsed;
   const problem = pixelProblem(info);
   if (problem) throw badFile(info.file, problem);
@@ -40,7 +41,8 @@ export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, f
   const frameBytes = pixels * bytesPerSample;
   const element = dataSet.elements.x7fe00010;
   const bytes = dataSet.byteArray as Uint8Array;
-  const out = new Uint8Array(frameBytes);
+  if (into && into.length !== frameBytes) throw badFile(info.file, `holds ${frameBytes} bytes per frame where ${into.length} were expected`);
+  const out = into ?? new Uint8Array(frameBytes);
   if (transferSyntax(info.syntaxUid).encoding === 'rle') {
     if (!element.encapsulatedPixelData) throw badFile(info.file, 'says RLE Lossless but its pixel data is not encapsulated');
     let encoded: Uint8Array;
@@ -67,5 +69,5 @@ export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, f
     const bigEndian = info.syntaxUid === EXPLICIT_BIG_ENDIAN;
     if (bigEndian === PLATFORM_LITTLE_ENDIAN) swapBytesInPlace(out, bytesPerSample);
   }
-  return viewVoxels(datatype, out.buffer, 0, pixels);
+  return viewVoxels(datatype, out.buffer, out.byteOffset, pixels);
 }

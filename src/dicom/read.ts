@@ -138,10 +138,12 @@ async function fillVolume(scan: DicomScan, stack: Stack, affine: readonly number
     for (const k of ks) {
       const r = stack.slices[k];
       if (parsed.info.frames.length <= r.plane.frame) throw badFile(src.name, 'changed while it was being read');
-      const values = decodeFrame(parsed, r.plane.frame);
-      if (values.length !== pixels) throw badFile(src.name, `holds ${values.length} pixels per frame where ${pixels} were expected`);
-      if (uniform) data.set(values, k * pixels);
-      else {
+      if (uniform) {
+        // Decoded straight into the volume: no per-slice copy.
+        decodeFrame(parsed, r.plane.frame, new Uint8Array(data.buffer, k * pixels * data.BYTES_PER_ELEMENT, pixels * data.BYTES_PER_ELEMENT));
+      } else {
+        const values = decodeFrame(parsed, r.plane.frame);
+        if (values.length !== pixels) throw badFile(src.name, `holds ${values.length} pixels per frame where ${pixels} were expected`);
         const { slope, inter } = r.plane;
         const at = k * pixels;
         for (let n = 0; n < pixels; n++) data[at + n] = values[n] * slope + inter;
