@@ -171,4 +171,5 @@ def main():
                       'affine': affine.tolist(), 'dims': [NX, NY, NZ]}))
 
 
-main()
+if __name__ == '__main__':
+    main()
