@@ -12,7 +12,11 @@ import { chooseStack, groupStacks, stackGeometry, stackName, type SeriesEntry, t
  * facts; the second reads the chosen series' files again, one at a time, into the volume.
  */
 
-/** One file offered to the reader: its name for messages and a way to get its bytes (read on demand). */
+/**
+ * One file offered to the reader: its name for messages and a way to get its bytes, read on demand.
+ * The reader is done with one file's bytes before it asks for the next, so a source may hand out the
+ * same reused buffer each time.
+ */
 export interface DicomSource {
   name: string;
   bytes(): Promise<Uint8Array>;
