@@ -83,13 +83,21 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
   const used = new Set<string>();
   const warnings: string[] = [];
   const now = new Date().toISOString();
-  const jobs: { manifest: Manifest; source: string; fromManifest: boolean; lookup: Lookup; dicom?: DicomScanSource }[] = [];
+  const jobs: { manifest: Manifest; source: string; fromManifest: boolean; lookup: Lookup; dicom?: DicomScanSource; dicomFolder?: DicomFolder }[] = [];
 
   if (manifests.length > 0) {
     for (const m of manifests) {
       used.add(normalisePath(m.relativePath));
       const manifest = parseManifest(textOf(m), m.relativePath);
-      jobs.push({ manifest, source: m.relativePath, fromManifest: true, lookup: manifestLookup(m.relativePath, byPath) });
+      // A visit's scan may name a folder of DICOM files (as for the command line).
+      const dicomFolder: DicomFolder = (rel) => {
+        const prefix = `${normalisePath(resolveManifestPath(m.relativePath, rel))}/`;
+        const under = files.filter((f) => normalisePath(f.relativePath).startsWith(prefix));
+        const found = dicomFilesOf(under);
+        for (const f of under) used.add(normalisePath(f.relativePath));
+        return found.length > 0 ? found : undefined;
+      };
+      jobs.push({ manifest, source: m.relativePath, fromManifest: true, lookup: manifestLookup(m.relativePath, byPath), dicomFolder });
     }
   } else {
     if (files.length === 0) throw badInput(ALL_FILES, 'are none: choose a patient folder or a visit\'s files');
@@ -129,7 +137,8 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
       return f;
     };
     const dicom = j.dicom && { ...j.dicom, onProgress: (done: number, total: number, what: string) => progress.report?.(progress.done, progress.total, `${what}: ${done} of ${total}`) };
-    patients.push({ ...(await planPatient(j.manifest, j.source, lookup, warnings, now, dicom)), fromManifest: j.fromManifest });
+    const folder = j.dicomFolder && { find: j.dicomFolder, onProgress: (done: number, total: number, what: string) => progress.report?.(progress.done, progress.total, `${what}: ${done} of ${total}`) };
+    patients.push({ ...(await planPatient(j.manifest, j.source, lookup, warnings, now, dicom, folder)), fromManifest: j.fromManifest });
   }
   progress.report?.(progress.total, progress.total, '');
   const ignored = files.map((f) => f.relativePath).filter((p) => !used.has(normalisePath(p)) && !baseName(p).startsWith('.'));
@@ -188,6 +197,9 @@ export async function commitImport(db: FalciformDb, plan: ImportPlan): Promise<I
 
 type Lookup = (visit: string, field: string, path: string) => OpenedFile;
 
+/** The DICOM files under a manifest-relative folder, or undefined when it holds none. */
+type DicomFolder = (rel: string) => OpenedFile[] | undefined;
+
 interface DicomScanSource {
   files: OpenedFile[];
   series?: string;
@@ -214,6 +226,7 @@ function missing(path: string): never {
 
 async function planPatient(
   manifest: Manifest, source: string, lookup: Lookup, warnings: string[], now: string, dicom?: DicomScanSource,
+  folder?: { find: DicomFolder; onProgress: DicomScanSource['onProgress'] },
 ): Promise<Omit<PatientPlan, 'fromManifest'>> {
   const patientId = manifest.patient.id;
   const patient: PatientRecord = compact({
@@ -256,8 +269,9 @@ async function planPatient(
     for (const role of VOLUME_ROLES) {
       const path = visit[role];
       if (path === undefined) continue;
-      if (role === 'scan' && dicom && path === DICOM_SCAN) {
-        const read = await readDicomScan(dicom.files, dicom.series, { patientId, visitId: visit.id }, dicom.onProgress);
+      const dicomScan = role !== 'scan' ? undefined : dicom && path === DICOM_SCAN ? dicom : folder && { files: folder.find(path), series: undefined, onProgress: folder.onProgress };
+      if (dicomScan?.files) {
+        const read = await readDicomScan(dicomScan.files, dicomScan.series, { patientId, visitId: visit.id }, dicomScan.onProgress);
         warnings.push(...read.warnings);
         volumes.push(read.record);
         dicomFacts = read.facts;

@@ -63,6 +63,21 @@ describe('DICOM series as a visit scan in the store', () => {
     expect((await target.visits.get(['DCM-0007', '2026-05-20']))?.dicom).toEqual(visit.dicom);
   });
 
+  it("a manifest visit's scan may name a folder of DICOM files", async () => {
+    const manifest = { patient: { id: 'DCM-0007' }, visits: [{ id: 'v1', date: '2026-05-20', scan: 'v1/dicom', segments: 'v1/segments.nii.gz', lesions: 'v1/lesions.nii.gz' }] };
+    const files: OpenedFile[] = [
+      { relativePath: 'P/manifest.json', bytes: new TextEncoder().encode(JSON.stringify(manifest)) },
+      ...dicom.map((f) => ({ relativePath: `P/v1/dicom/${f.relativePath.split('/').pop()}`, bytes: f.bytes.slice() })),
+      ...v1.filter((f) => !f.relativePath.endsWith('scan.nii.gz')).map((f) => ({ relativePath: `P/v1/${f.relativePath.split('/').pop()}`, bytes: f.bytes.slice() })),
+    ];
+    const plan = await readImport(files);
+    expect(plan.ignored).toEqual([]);
+    expect(plan.patients[0].visits[0].dicom?.seriesDescription).toBe('Abdomen portal venous');
+    const scan = plan.patients[0].volumes.find((v) => v.role === 'scan')!;
+    const source = (await readNifti(v1.find((f) => f.relativePath.endsWith('scan.nii.gz'))!.bytes, 'source', { inflate: webInflate })).volume;
+    expect(expectSameInWorld((await readNifti(scan.bytes, 'stored', { inflate: webInflate })).volume, source, 1e-3)).toBe(64 * 48 * 40);
+  });
+
   it('refuses DICOM files of two patients in one import', async () => {
     const files = visitFiles();
     // Re-label one slice's PatientID (same length, so the element stays valid): "DCM-0007" → "DCM-0008".
