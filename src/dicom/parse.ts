@@ -100,12 +100,13 @@ function damaged(file: string, e: unknown) {
  */
 export async function parseDicomFile(bytes: Uint8Array, file: string, inflateRaw: InflateRaw, maxInflatedBytes: number): Promise<ParsedDicom> {
   let meta: DataSet;
+  let syntaxUid: string | undefined;
   try {
     meta = dicomParser.readPart10Header(bytes);
+    syntaxUid = meta.string('x00020010');
   } catch (e) {
     throw damaged(file, e);
   }
-  const syntaxUid = meta.string('x00020010');
   if (!syntaxUid) throw badFile(file, 'has no transfer syntax (0002,0010) in its file meta information');
   const syntax = transferSyntax(syntaxUid);
   let whole = bytes;
@@ -128,7 +129,12 @@ export async function parseDicomFile(bytes: Uint8Array, file: string, inflateRaw
   } catch (e) {
     throw damaged(file, e);
   }
-  return { info: describe(dataSet, file, syntax), dataSet };
+  try {
+    // Element values are read lazily; a damaged length or value surfaces here.
+    return { info: describe(dataSet, file, syntax), dataSet };
+  } catch (e) {
+    throw damaged(file, e);
+  }
 }
 
 function str(ds: DataSet | undefined, tag: string): string | undefined {
