@@ -57,6 +57,13 @@ describe('a DICOM series against the volume it was written from', () => {
     expect(expectSameInWorld(loaded.volume, original)).toBe(32 * 28 * 20);
   });
 
+  it('slices with different rescale intercepts become one float32 volume of physical values', async () => {
+    const fx = writeSeries(tempDir('dcm-rescale'), 'rescale');
+    const loaded = await loadDicom(fx.folder);
+    expect(loaded.volume.datatype).toBe('float32');
+    expect(expectSameInWorld(loaded.volume, (await loadVolume(fx.original)).volume)).toBe(32 * 28 * 20);
+  });
+
   it('agrees with dcm2niix (Debian, run live) converting the same folder', async () => {
     const dir = tempDir('dcm-d2n');
     const fx = writeSeries(dir, 'good');

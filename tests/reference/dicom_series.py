@@ -3,7 +3,7 @@
 DICOM reader is checked against files it did not write.
 
 Usage: dicom_series.py OUTDIR CASE [SYNTAX]
-CASE: good | missing | two-orientations | duplicate | junk | tilt | enhanced
+CASE: good | missing | two-orientations | duplicate | junk | tilt | enhanced | rescale
 SYNTAX: explicit (default) | implicit | bigendian | deflated | rle
 Writes OUTDIR/dicom/ (slices under shuffled random names, beside a localizer and, for `junk`, a text
 file), OUTDIR/original.nii.gz (the volume and its RAS affine, via nibabel) and prints a JSON summary.
@@ -151,7 +151,12 @@ def main():
                 ds.ImageOrientationPatient = [1.0, 0.0, 0.0, 0.0, 1.0, 0.0]
             if case == 'duplicate' and k == 5:
                 ds.ImagePositionPatient = [float(x) for x in positions[4][:3]]
-            put_pixels(ds, vol[:, :, k].T, syntax)
+            plane = vol[:, :, k].T
+            if case == 'rescale' and k % 2 == 1:
+                # The same physical values under another intercept (PS3.3 C.11.1.1.2).
+                ds.RescaleIntercept = '-1048'
+                plane = plane + 24
+            put_pixels(ds, plane, syntax)
             save(ds, os.path.join(folder, names[n]), syntax)
     # A localizer beside the series: one sagittal image of its own series.
     loc = base(generate_uid(), study, 1, 'Topogram 0.6 T20f')
