@@ -1,12 +1,15 @@
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import type { OpenedFile } from '../../main/bridge-api';
 import { errorText } from '../error-text';
 import { guessLooseFiles } from '../store/loose-files';
 import type { LooseVisitDetails } from '../store/import';
+import { dicomFilesOf, proposeDicom, type DicomProposal } from '../store/dicom-import';
 import { ConfirmDialog } from './ConfirmDialog';
 
 interface Props {
   files: OpenedFile[];
+  /** Stored patients' ids, offered for the patient field. */
+  knownPatients?: string[];
   onImport: (details: LooseVisitDetails) => void;
   onCancel: () => void;
 }
@@ -17,10 +20,29 @@ const ROLE_WORDS: Record<string, string> = {
 };
 
 /** Files without a manifest form one visit; only the user can say whose visit and when. */
-export function LooseFilesDialog({ files, onImport, onCancel }: Props) {
+export function LooseFilesDialog({ files, knownPatients = [], onImport, onCancel }: Props) {
   const [patientId, setPatientId] = useState('');
   const [date, setDate] = useState('');
   const [visitId, setVisitId] = useState('');
+  const hasDicom = useMemo(() => dicomFilesOf(files).length > 0, [files]);
+  const [dicom, setDicom] = useState<{ proposal?: DicomProposal; problem?: string } | null>(null);
+  const [series, setSeries] = useState<string | undefined>(undefined);
+  useEffect(() => {
+    if (!hasDicom) return;
+    let live = true;
+    proposeDicom(files).then(
+      (proposal) => {
+        if (!live) return;
+        setDicom({ proposal });
+        setSeries(proposal.defaultId);
+        // The headers propose; the user confirms or changes.
+        setPatientId((p) => p || proposal.patientId || '');
+        setDate((d) => d || proposal.studyDate || '');
+      },
+      (e: unknown) => live && setDicom({ problem: errorText(e) }),
+    );
+    return () => { live = false; };
+  }, [files, hasDicom]);
   const guess = useMemo(() => {
     try {
       return { ok: true as const, ...guessLooseFiles(files) };
@@ -34,10 +56,16 @@ export function LooseFilesDialog({ files, onImport, onCancel }: Props) {
       confirmLabel="Import visit"
       testId="loose-dialog"
       onCancel={onCancel}
-      onConfirm={() => onImport({ patientId, date, ...(visitId.trim() ? { visitId: visitId.trim() } : {}) })}
+      onConfirm={() => onImport({ patientId, date, ...(visitId.trim() ? { visitId: visitId.trim() } : {}), ...(series ? { dicomSeries: series } : {}) })}
     >
       {guess.ok ? (
         <dl className="roles">
+          {hasDicom && guess.files.scan === undefined && (
+            <div>
+              <dt>{ROLE_WORDS.scan}</dt>
+              <dd>DICOM series chosen below</dd>
+            </div>
+          )}
           {Object.entries(guess.files).map(([role, file]) => (
             <div key={role}>
               <dt>{ROLE_WORDS[role] ?? role}</dt>
@@ -48,11 +76,13 @@ export function LooseFilesDialog({ files, onImport, onCancel }: Props) {
       ) : (
         <p className="problem" role="alert">{guess.message}</p>
       )}
+      {hasDicom && <DicomSeriesChoice state={dicom} chosen={series} onChoose={setSeries} />}
       <p className="hint">These files have no manifest.json. Give the patient and the imaging date; an existing patient gains this visit.</p>
       <div className="form-grid">
         <label>
           Patient id
-          <input value={patientId} onChange={(e) => setPatientId(e.target.value)} data-testid="loose-patient" required />
+          <input value={patientId} onChange={(e) => setPatientId(e.target.value)} data-testid="loose-patient" list="known-patients" required />
+          <datalist id="known-patients">{knownPatients.map((id) => <option key={id} value={id} />)}</datalist>
         </label>
         <label>
           Imaging date
@@ -64,5 +94,34 @@ export function LooseFilesDialog({ files, onImport, onCancel }: Props) {
         </label>
       </div>
     </ConfirmDialog>
+  );
+}
+
+/** The DICOM series found, the one to be taken chosen by radio button; the others say why they cannot be. */
+function DicomSeriesChoice({ state, chosen, onChoose }: { state: { proposal?: DicomProposal; problem?: string } | null; chosen?: string; onChoose: (id: string) => void }) {
+  if (!state) return <p className="hint" data-testid="dicom-reading">Reading the DICOM headers…</p>;
+  if (state.problem) return <p className="problem" role="alert" data-testid="dicom-problem">{state.problem}</p>;
+  const p = state.proposal as DicomProposal;
+  const selectable = (why: string, taken: boolean) => taken || why === 'another series was taken';
+  return (
+    <fieldset className="dicom-series" data-testid="dicom-series">
+      <legend>DICOM series: the scan</legend>
+      {p.series.map((s) => (
+        <label key={s.id} className={selectable(s.why, s.taken) ? '' : 'muted'}>
+          <input type="radio" name="dicom-series" value={s.id} checked={chosen === s.id} disabled={!selectable(s.why, s.taken)} onChange={() => onChoose(s.id)} />
+          {' '}{[s.number, s.modality, s.description].filter((x) => x !== undefined).join(' · ') || s.uid} — {s.slices} slice{s.slices === 1 ? '' : 's'}, {s.dims[0]}×{s.dims[1]}
+          {!selectable(s.why, s.taken) && <span className="hint"> (not a scan: {s.why})</span>}
+          {s.taken && <span className="hint"> ({s.why})</span>}
+        </label>
+      ))}
+      {p.defaultId === undefined && <p className="problem" role="alert">None of these series can be a visit's scan.</p>}
+      {(p.patientId || p.patientName) && (
+        <p className="hint" data-testid="dicom-patient">
+          In the DICOM headers: patient ID {p.patientId ?? 'none'}{p.patientName ? `, ${p.patientName}` : ''}{p.patientBirthDate ? `, born ${p.patientBirthDate}` : ''}
+          {p.studyDate ? `; study date ${p.studyDate}` : ''}. Confirm the patient and date below, or pick a stored patient.
+        </p>
+      )}
+      {p.warnings.map((w) => <p key={w} className="hint">{w}</p>)}
+    </fieldset>
   );
 }

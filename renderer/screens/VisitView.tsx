@@ -272,6 +272,15 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             Segment map {landmarkMode === 'built' ? 'built from landmarks' : 'imported'} · lesions from {lesionSource || 'nothing'}
           </span>
         )}
+        {record?.dicom && (
+          <span className="visit-facts" data-testid="dicom-facts" title={`DICOM series ${record.dicom.seriesUid}`}>
+            Scan from DICOM: {[record.dicom.modality, record.dicom.seriesDescription,
+              record.dicom.sliceThicknessMm !== undefined ? `${record.dicom.sliceThicknessMm} mm slices` : undefined,
+              record.dicom.kvp !== undefined ? `${record.dicom.kvp} kVp` : undefined,
+              record.dicom.contrastAgent ? `contrast ${record.dicom.contrastAgent}` : 'no contrast agent recorded',
+              record.dicom.manufacturerModel].filter(Boolean).join(' · ')}
+          </span>
+        )}
         <span className="visit-nav">
           <button type="button" onClick={() => openVisit(previous)} disabled={!previous} data-testid="previous-visit" title="Previous visit ( [ )">‹ {previous ?? 'first visit'}</button>
           <button type="button" onClick={() => openVisit(next)} disabled={!next} data-testid="next-visit" title="Next visit ( ] )">{next ?? 'last visit'} ›</button>

@@ -17,6 +17,7 @@ import { webGzip, webInflate } from '../../src/volume/web-gzip.js';
 import type { FalciformDb } from './db.js';
 import { ALL_FILES, NIFTI_NAME, PAIR_NAME, PAIR_PROBLEM, baseName, guessLooseFiles, textOf } from './loose-files.js';
 import { compact, ownBytes, trailId } from './record-helpers.js';
+import { dicomFilesOf, readDicomScan } from './dicom-import.js';
 import { checkMask, checkOverlap, checkPointsOnScan, type GridInfo } from './volume-checks.js';
 import { explainWriteFailure } from './write-failure.js';
 
@@ -47,6 +48,8 @@ export interface LooseVisitDetails {
   /** Defaults to the date. */
   visitId?: string;
   splitIV?: boolean;
+  /** The DICOM series (UID, or UID:n) to take as the scan when the files hold DICOM; default by the documented rule. */
+  dicomSeries?: string;
 }
 
 export interface ReadImportOptions {
@@ -60,6 +63,8 @@ export interface ImportResult {
 }
 
 export const MANIFEST_NAME = 'manifest.json';
+/** Stands for the chosen DICOM series where a loose visit's scan path would be. */
+const DICOM_SCAN = 'DICOM series';
 const LOOSE_DETAILS = 'the import details';
 
 /** The chosen files' manifests: every file named manifest.json (one per patient folder). */
@@ -78,13 +83,21 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
   const used = new Set<string>();
   const warnings: string[] = [];
   const now = new Date().toISOString();
-  const jobs: { manifest: Manifest; source: string; fromManifest: boolean; lookup: Lookup }[] = [];
+  const jobs: { manifest: Manifest; source: string; fromManifest: boolean; lookup: Lookup; dicom?: DicomScanSource; dicomFolder?: DicomFolder }[] = [];
 
   if (manifests.length > 0) {
     for (const m of manifests) {
       used.add(normalisePath(m.relativePath));
       const manifest = parseManifest(textOf(m), m.relativePath);
-      jobs.push({ manifest, source: m.relativePath, fromManifest: true, lookup: manifestLookup(m.relativePath, byPath) });
+      // A visit's scan may name a folder of DICOM files (as for the command line).
+      const dicomFolder: DicomFolder = (rel) => {
+        const prefix = `${normalisePath(resolveManifestPath(m.relativePath, rel))}/`;
+        const under = files.filter((f) => normalisePath(f.relativePath).startsWith(prefix));
+        const found = dicomFilesOf(under);
+        for (const f of under) used.add(normalisePath(f.relativePath));
+        return found.length > 0 ? found : undefined;
+      };
+      jobs.push({ manifest, source: m.relativePath, fromManifest: true, lookup: manifestLookup(m.relativePath, byPath), dicomFolder });
     }
   } else {
     if (files.length === 0) throw badInput(ALL_FILES, 'are none: choose a patient folder or a visit\'s files');
@@ -93,8 +106,17 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
     }
     const guess = guessLooseFiles(files);
     warnings.push(...guess.notes);
+    // DICOM files (any names) give the scan; they are read as one series, not looked up one by one.
+    const dicomFiles = dicomFilesOf(files);
+    let dicom: DicomScanSource | undefined;
+    if (dicomFiles.length > 0) {
+      if (guess.files.scan !== undefined) throw badInput(ALL_FILES, `hold both a NIfTI scan (${guess.files.scan}) and DICOM images; keep one`);
+      guess.files.scan = DICOM_SCAN;
+      dicom = { files: dicomFiles, series: opts.loose.dicomSeries };
+      for (const f of dicomFiles) used.add(normalisePath(f.relativePath));
+    }
     const manifest = parseManifest(JSON.stringify(looseManifest(guess.files, opts.loose)), LOOSE_DETAILS);
-    jobs.push({ manifest, source: commonFolder(files) ?? 'loose files', fromManifest: false, lookup: (_visit, _field, path) => byPath.get(normalisePath(path)) ?? missing(path) });
+    jobs.push({ manifest, source: commonFolder(files) ?? 'loose files', fromManifest: false, dicom, lookup: (_visit, _field, path) => byPath.get(normalisePath(path)) ?? missing(path) });
   }
 
   const seen = new Map<string, string>();
@@ -114,7 +136,9 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
       progress.report?.(progress.done++, progress.total, f.relativePath);
       return f;
     };
-    patients.push({ ...(await planPatient(j.manifest, j.source, lookup, warnings, now)), fromManifest: j.fromManifest });
+    const dicom = j.dicom && { ...j.dicom, onProgress: (done: number, total: number, what: string) => progress.report?.(progress.done, progress.total, `${what}: ${done} of ${total}`) };
+    const folder = j.dicomFolder && { find: j.dicomFolder, onProgress: (done: number, total: number, what: string) => progress.report?.(progress.done, progress.total, `${what}: ${done} of ${total}`) };
+    patients.push({ ...(await planPatient(j.manifest, j.source, lookup, warnings, now, dicom, folder)), fromManifest: j.fromManifest });
   }
   progress.report?.(progress.total, progress.total, '');
   const ignored = files.map((f) => f.relativePath).filter((p) => !used.has(normalisePath(p)) && !baseName(p).startsWith('.'));
@@ -173,6 +197,15 @@ export async function commitImport(db: FalciformDb, plan: ImportPlan): Promise<I
 
 type Lookup = (visit: string, field: string, path: string) => OpenedFile;
 
+/** The DICOM files under a manifest-relative folder, or undefined when it holds none. */
+type DicomFolder = (rel: string) => OpenedFile[] | undefined;
+
+interface DicomScanSource {
+  files: OpenedFile[];
+  series?: string;
+  onProgress?: (done: number, total: number, what: string) => void;
+}
+
 function manifestLookup(manifestPath: string, byPath: Map<string, OpenedFile>): Lookup {
   return (visit, field, rel) => {
     if (rel.startsWith('/') || /^[A-Za-z]:[\\/]/.test(rel)) {
@@ -191,7 +224,10 @@ function missing(path: string): never {
   throw badInput(ALL_FILES, `lost ${path} while reading`);
 }
 
-async function planPatient(manifest: Manifest, source: string, lookup: Lookup, warnings: string[], now: string): Promise<Omit<PatientPlan, 'fromManifest'>> {
+async function planPatient(
+  manifest: Manifest, source: string, lookup: Lookup, warnings: string[], now: string, dicom?: DicomScanSource,
+  folder?: { find: DicomFolder; onProgress: DicomScanSource['onProgress'] },
+): Promise<Omit<PatientPlan, 'fromManifest'>> {
   const patientId = manifest.patient.id;
   const patient: PatientRecord = compact({
     id: patientId,
@@ -211,6 +247,7 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
   for (const visit of manifest.visits) {
     const inputs: InputRecord[] = [];
     const volumes: VolumeRecord[] = [];
+    let dicomFacts: VisitRecord['dicom'];
     // The JSON inputs first: the scheme is needed to check the segment map.
     let scheme: SegmentScheme | 'default' = 'default';
     const points: { file: string; points: { name: string; at: Vec3 }[] }[] = [];
@@ -232,6 +269,14 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
     for (const role of VOLUME_ROLES) {
       const path = visit[role];
       if (path === undefined) continue;
+      const dicomScan = role !== 'scan' ? undefined : dicom && path === DICOM_SCAN ? dicom : folder && { files: folder.find(path), series: undefined, onProgress: folder.onProgress };
+      if (dicomScan?.files) {
+        const read = await readDicomScan(dicomScan.files, dicomScan.series, { patientId, visitId: visit.id }, dicomScan.onProgress);
+        warnings.push(...read.warnings);
+        volumes.push(read.record);
+        dicomFacts = read.facts;
+        continue;
+      }
       const f = lookup(visit.id, role, path);
       const { record, warnings: w } = await readVolume(f, role, patientId, visit.id, scheme);
       warnings.push(...w);
@@ -251,6 +296,7 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
       scheme: visit.scheme === undefined ? undefined : visit.scheme === 'default' ? ('default' as const) : ('file' as const),
       splitIV: visit.splitIV,
       note: visit.note,
+      dicom: dicomFacts,
     });
     plan.visits.push({ ...record, storedBytes: visitStoredBytes(record, volumes, inputs) });
     plan.volumes.push(...volumes);
@@ -360,6 +406,7 @@ function importTrail(p: PatientPlan, newPatient: boolean): AuditRecord[] {
   for (const v of p.visits) {
     const files = [...p.volumes, ...p.inputs].filter((r) => r.visitId === v.id).map((r) => r.fileName);
     trail.push({ id: trailId(), at, patientId, entity: 'visit', entityId: v.id, field: 'files', oldValue: null, newValue: files, action: 'import' });
+    if (v.dicom) trail.push({ id: trailId(), at, patientId, entity: 'visit', entityId: v.id, field: 'dicomSeries', oldValue: null, newValue: v.dicom.seriesUid, action: 'import' });
   }
   return trail;
 }

@@ -1,5 +1,6 @@
 import { analyze } from './commands/analyze.js';
 import { batch } from './commands/batch.js';
+import { convert } from './commands/convert.js';
 import { followup } from './commands/followup.js';
 import { inspect } from './commands/inspect.js';
 import { report } from './commands/report.js';
@@ -12,4 +13,4 @@ export interface Command {
   run(argv: readonly string[]): Promise<void>;
 }
 
-export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report, batch };
+export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report, batch, convert };

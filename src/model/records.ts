@@ -51,8 +51,22 @@ export interface VisitRecord {
   scheme?: 'default' | 'file';
   splitIV?: boolean;
   note?: string;
+  /** Header facts when the scan was imported from a DICOM series (its voxels are stored as NIfTI). */
+  dicom?: DicomVisitFacts;
   /** Bytes the visit takes in the store (its records' JSON plus compressed volumes); schema 2 on. */
   storedBytes: number;
+}
+
+/** A DICOM scan's header facts kept with its visit; no patient name or birth date is stored. */
+export interface DicomVisitFacts {
+  seriesUid: string;
+  studyDate?: string;
+  modality?: string;
+  seriesDescription?: string;
+  sliceThicknessMm?: number;
+  contrastAgent?: string;
+  kvp?: number;
+  manufacturerModel?: string;
 }
 
 /** One NIfTI file of a visit, always gzip-compressed; the only table that holds voxel data. */

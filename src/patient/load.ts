@@ -46,7 +46,7 @@ export interface LoadedPatient {
 export interface PatientFiles {
   /** The name to show in messages for a manifest path (a file path, or the imported file's name). */
   name(path: string): string;
-  volume(path: string): Promise<LoadedNifti>;
+  volume(path: string): Promise<Pick<LoadedNifti, 'volume' | 'warnings'>>;
   text(path: string): Promise<string>;
 }
 

@@ -5,9 +5,11 @@ import type { Volume } from '../../volume/volume.js';
 import { UsageError, numberOption, parseArgs } from '../args.js';
 import type { Command } from '../commands.js';
 import { loadVolume } from '../node-io.js';
+import { isDicomPath } from '../dicom-io.js';
+import { inspectDicom } from './inspect-dicom.js';
 
 /** Smallest and largest physical value (after scl_slope/scl_inter), ignoring NaN; null when all are NaN. */
-function valueRange(v: Volume): { min: number | null; max: number | null } {
+export function valueRange(v: Volume): { min: number | null; max: number | null } {
   const d = v.data;
   let lo = Infinity;
   let hi = -Infinity;
@@ -23,7 +25,7 @@ function valueRange(v: Volume): { min: number | null; max: number | null } {
 }
 
 /** Header values are float32 or products of them: print 7 significant digits, not float noise. */
-function tidy(x: number): number {
+export function tidy(x: number): number {
   if (Number.isInteger(x)) return x;
   const digits = Math.max(7, Math.floor(Math.log10(Math.abs(x))) + 2);
   const y = Number(x.toPrecision(Math.min(digits, 17)));
@@ -31,19 +33,21 @@ function tidy(x: number): number {
 }
 
 /** As tidy, and a millimetre amount below a nanometre is float32 rounding of a zero. */
-function tidyMm(x: number): number {
+export function tidyMm(x: number): number {
   return Math.abs(x) < 1e-6 ? 0 : tidy(x);
 }
 
 export const inspect: Command = {
-  summary: 'header facts of a NIfTI-1/NIfTI-2 image (.nii, .nii.gz, .hdr/.img)',
-  usage: 'falciform inspect FILE [--json] [--max-voxel-mib N]',
+  summary: 'header facts of a NIfTI-1/NIfTI-2 image (.nii, .nii.gz, .hdr/.img), a DICOM file or a folder of DICOM files',
+  usage: 'falciform inspect PATH [--json] [--series UID] [--max-voxel-mib N]',
   async run(argv) {
-    const args = parseArgs(argv, ['max-voxel-mib'], ['json']);
-    if (args.positional.length !== 1) throw new UsageError('give exactly one image file');
+    const args = parseArgs(argv, ['max-voxel-mib', 'series'], ['json']);
+    if (args.positional.length !== 1) throw new UsageError('give exactly one image file or DICOM folder');
     const file = args.positional[0];
     const mib = numberOption(args, 'max-voxel-mib', DEFAULT_MAX_BYTES / 1024 ** 2);
     if (mib <= 0) throw new UsageError('--max-voxel-mib must be a positive number of MiB');
+    if (await isDicomPath(file)) return inspectDicom(file, args, Math.floor(mib * 1024 ** 2));
+    if (args.options.has('series')) throw new UsageError('--series applies to DICOM input only');
     let loaded;
     try {
       loaded = await loadVolume(file, { maxBytes: Math.floor(mib * 1024 ** 2) });
