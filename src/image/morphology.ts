@@ -129,3 +129,22 @@ export class GrowingStack {
     return this.data[--this.size];
   }
 }
+
+/**
+ * Cuts thin bridges from the seeds' region: an opening of `radiusMm` breaks every neck narrower than
+ * the ball, the seeds' component of what is left is kept, and a dilation of it by the same ball,
+ * taken inside the original mask, gives back the region's own edges and tips that the opening
+ * shaved off (a bridge comes back only as a stub no longer than the radius).
+ */
+export function cutThinBridges(
+  mask: Uint8Array,
+  dims: Dims,
+  spacingMm: readonly number[],
+  radiusMm: number,
+  keepComponent: (opened: Uint8Array) => Uint8Array,
+): Uint8Array {
+  const kept = keepComponent(open(mask, dims, spacingMm, radiusMm));
+  const back = dilate(kept, dims, spacingMm, radiusMm);
+  for (let n = 0; n < back.length; n++) back[n] &= mask[n];
+  return back;
+}
