@@ -1,6 +1,8 @@
 import { analyze } from './commands/analyze.js';
 import { followup } from './commands/followup.js';
 import { inspect } from './commands/inspect.js';
+import { lesion } from './commands/lesion.js';
+import { liver } from './commands/liver.js';
 import { report } from './commands/report.js';
 import { segments } from './commands/segments.js';
 
@@ -11,4 +13,4 @@ export interface Command {
   run(argv: readonly string[]): Promise<void>;
 }
 
-export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report };
+export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report, liver, lesion };
