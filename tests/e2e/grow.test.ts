@@ -55,6 +55,7 @@ describe('grow from a click', () => {
     await viewer().waitFor();
     await settled();
     const before = await page.locator('[data-testid="lesion-row"]').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-lesion')));
+    const liverBefore = await page.getByTestId('liver-volume').textContent();
 
     const inLiver = await pointWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
     await page.getByTestId('grow-opening').fill('5');
@@ -73,8 +74,11 @@ describe('grow from a click', () => {
 
     await page.getByTestId('grow-accept').click();
     await expect.poll(async () => (await page.getByTestId('edit-notice').textContent()) ?? '', { timeout: 60_000 }).toMatch(/Liver mask of \d+ mL stored for visit v2/);
+    // The analysis reruns on the grown liver: its volume changes from the imported mask's.
+    await expect.poll(() => page.getByTestId('liver-volume').textContent(), { timeout: 120_000 }).not.toBe(liverBefore);
     await page.getByTestId('volumes-progress').waitFor({ state: 'detached', timeout: 120_000 });
     await settled();
+    expect(Number(await page.getByTestId('liver-volume').textContent())).toBeCloseTo(ml, -1);
     expect(await page.getByTestId('map-source').textContent()).toMatch(/Built from this visit's landmarks/);
     // The lesions are still placed in segments of the map built inside the grown liver.
     const after = await page.locator('[data-testid="lesion-row"]').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-lesion')));
@@ -97,7 +101,9 @@ describe('grow from a click', () => {
   });
 
   it('grows a lesion from a click on it and adds it to the lesion mask', async () => {
-    const onLesion = await pointWhere((t) => /lesion L\d/.test(t));
+    await page.locator('[data-testid="lesion-row"][data-lesion="L1"]').click();
+    await page.mouse.move(0, 0);
+    const onLesion = await pointWhere((t) => /lesion L1\b/.test(t));
     const id = /lesion (L\d+)/.exec(onLesion.text)![1];
     await page.getByTestId('grow-lesion').click();
     await page.mouse.click(onLesion.x, onLesion.y);
