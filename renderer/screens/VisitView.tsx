@@ -16,6 +16,7 @@ import { useStored } from '../store/use-stored';
 import { markFromCaliper, nextMarkId } from '../viewer/caliper';
 import { LandmarkPanel, type LandmarkMode } from '../viewer/LandmarkPanel';
 import { landmarkProblems, landmarkQcNotes, LANDMARK_LABELS, type LandmarkNotes } from '../viewer/landmark-qc';
+import { diameterMarks, lesionOfDiameter } from '../viewer/diameter-marks';
 import { GrowPanel, type GrowKind } from '../viewer/GrowPanel';
 import { LesionPanel } from '../viewer/LesionPanel';
 import { SegmentPanel } from '../viewer/SegmentPanel';
@@ -100,6 +101,8 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const layouts = useMemo(() => (volumes ? layoutsOf(volumes) : null), [volumes]);
   const layout = layouts?.[prefs.plane] ?? null;
   const marks = useMemo(() => inputs?.marks ?? [], [inputs]);
+  // Mask lesions' measured diameters are drawn beside the marks' calipers.
+  const drawnMarks = useMemo(() => [...marks, ...diameterMarks(result?.analysis.lesions ?? [])], [marks, result]);
 
   const storedPresets = useStored(() => getSetting(db, 'windowPresets'), [db]);
   const presets: readonly WindowPreset[] = storedPresets?.length ? storedPresets : CT_PRESETS;
@@ -320,9 +323,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               showSegments={prefs.showSegments}
               opacity={prefs.opacity}
               tool={tool}
-              marks={marks}
+              marks={drawnMarks}
               selected={selected}
-              onSelect={setSelected}
+              onSelect={(id) => setSelected(lesionOfDiameter(id))}
               draft={draft}
               onDraft={setDraft}
               onMoveMarkEnd={moveMarkEnd}
@@ -331,7 +334,11 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               onMoveLandmark={(name, p) => void moveLandmark(name, p)}
               placing={placing}
               onHint={setHint}
-              onPick={growPick ? (p) => { setGrowSeed({ kind: growPick, p }); setGrowPick(null); setHint(null); } : undefined}
+              onPick={growPick ? (p) => {
+                setGrowSeed({ kind: growPick, p });
+                // The brush stays in hand for the next dab; a grower takes one click.
+                if (!growPick.startsWith('brush')) { setGrowPick(null); setHint(null); }
+              } : undefined}
             />
           ) : (
             loading.status !== 'failed' && <div className="slice-placeholder" aria-hidden="true" />
@@ -375,7 +382,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             picking={growPick}
             onPicking={(k) => {
               setGrowPick(k);
-              setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).' : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).' : null);
+              setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).'
+                : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).'
+                  : k ? `Click on any plane to ${k === 'brush-add' ? 'add' : 'erase'} a ball of the brush radius; each click is stored and can be undone (Esc ends).` : null);
             }}
             seed={growSeed}
             onAccepted={(text) => void edit(async () => text, { volumes: true })}

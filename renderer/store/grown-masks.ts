@@ -16,8 +16,8 @@ export async function saveGrownMask(
   role: 'liver' | 'lesions',
   grown: { bytes: Uint8Array; dims: number[]; affine: number[] },
   how: Record<string, JsonValue>,
-): Promise<void> {
-  await db.transaction('rw', [db.visits, db.volumes, db.audit], async () => {
+): Promise<VolumeRecord | undefined> {
+  return db.transaction('rw', [db.visits, db.volumes, db.audit], async () => {
     const visit = await db.visits.get([patientId, visitId]);
     if (!visit) throw badInput(`visit ${visitId}`, `is not among ${patientId}'s stored visits`);
     const before = await db.volumes.get(volumeKey(patientId, visitId, role));
@@ -44,6 +44,30 @@ export async function saveGrownMask(
       patientId, entity: 'visit', entityId: visitId, field: role, action: before ? 'update' : 'create',
       oldValue: before ? { fileName: before.fileName, bytes: before.bytes.byteLength } : null,
       newValue: { fileName: record.fileName, grown: how },
+    });
+    return before;
+  });
+}
+
+/**
+ * Undoes one change of a grown or brushed mask: puts back the volume record as it was before (or
+ * removes the role when there was none), with its own edit-trail entry.
+ */
+export async function restoreMask(db: FalciformDb, patientId: string, visitId: string, role: 'liver' | 'lesions', before: VolumeRecord | undefined): Promise<void> {
+  await db.transaction('rw', [db.visits, db.volumes, db.audit], async () => {
+    const visit = await db.visits.get([patientId, visitId]);
+    if (!visit) throw badInput(`visit ${visitId}`, `is not among ${patientId}'s stored visits`);
+    const now = await db.volumes.get(volumeKey(patientId, visitId, role));
+    const next: VisitRecord = { ...visit, volumes: VOLUME_ROLES.filter((r) => (r === role ? before !== undefined : visit.volumes.includes(r))) };
+    next.storedBytes = visit.storedBytes + visitStoredBytes(next, [], []) - visitStoredBytes(visit, [], [])
+      + (before ? recordBytes(before) : 0) - (now ? recordBytes(now) : 0);
+    if (before) await db.volumes.put(before);
+    else if (now) await db.volumes.delete(now.key);
+    await db.visits.put(next);
+    await recordEdit(db, {
+      patientId, entity: 'visit', entityId: visitId, field: role, action: before ? 'update' : 'delete',
+      oldValue: now ? { fileName: now.fileName, bytes: now.bytes.byteLength } : null,
+      newValue: before ? { fileName: before.fileName, undo: true } : null,
     });
   });
 }

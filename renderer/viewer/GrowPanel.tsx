@@ -4,11 +4,20 @@ import { LESION_DEFAULTS } from '../../src/image/grow-lesion';
 import { LIVER_DEFAULTS } from '../../src/image/grow-liver';
 import { errorText } from '../error-text';
 import { appDb } from '../store/db';
-import { saveGrownMask } from '../store/grown-masks';
+import { restoreMask, saveGrownMask } from '../store/grown-masks';
+import type { VolumeRecord } from '../../src/model/records';
 import { runJob } from '../workers/job-client';
-import type { GrowRequest, GrowResult } from './grow-messages';
+import type { BrushedMask, GrowRequest, GrowResult } from './grow-messages';
 
-export type GrowKind = 'liver' | 'lesion';
+export type GrowKind = 'liver' | 'lesion' | 'brush-add' | 'brush-erase';
+type MaskRole = 'liver' | 'lesions';
+
+/** One stored change the reader can take back: the role's volume record as it was before. */
+interface UndoStep {
+  role: MaskRole;
+  before: VolumeRecord | undefined;
+  what: string;
+}
 
 interface Props {
   patientId: string;
@@ -38,6 +47,9 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
   const [result, setResult] = useState<GrowResult | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
   const [saving, setSaving] = useState(false);
+  const [brushMm, setBrushMm] = useState(5);
+  const [brushRole, setBrushRole] = useState<MaskRole>('liver');
+  const [undo, setUndo] = useState<UndoStep[]>([]);
 
   useEffect(() => {
     if (!seed) return;
@@ -47,34 +59,74 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
     setProgress({ done: 0, step: 'starting' });
     const request: GrowRequest = seed.kind === 'liver'
       ? { kind: 'liver', patientId, visitId, seedMm: seed.p, params: { openingMm, closingMm } }
-      : { kind: 'lesion', patientId, visitId, seedMm: seed.p, params: { maxRadiusMm } };
+      : seed.kind === 'lesion'
+        ? { kind: 'lesion', patientId, visitId, seedMm: seed.p, params: { maxRadiusMm } }
+        : { kind: 'brush', patientId, visitId, seedMm: seed.p, role: brushRole, radiusMm: brushMm, erase: seed.kind === 'brush-erase' };
     runJob<GrowResult>(new Worker(new URL('../workers/grow.worker.ts', import.meta.url), { type: 'module' }), request, {
       crashed: 'growing stopped unexpectedly',
       signal: stop.signal,
       onProgress: (done, _total, step) => setProgress({ done, step }),
     }).then(
-      (r) => { setResult(r); setProgress(null); },
+      (r) => {
+        setProgress(null);
+        // A brush dab is stored at once (each one in the edit trail, each one undoable).
+        if (r.kind === 'brush') void storeBrush(r);
+        else setResult(r);
+      },
       (e: unknown) => { setProblem(errorText(e)); setProgress(null); },
     );
     return () => stop.abort();
     // A new click (a new seed object) starts a new run; the settings are read at that moment.
   }, [seed]);
 
-  const accept = async () => {
-    if (!result) return;
+  const storeBrush = async (r: BrushedMask) => {
     setSaving(true);
     try {
+      const what = `${r.erase ? 'erased' : 'added'} a ${r.radiusMm} mm ball ${r.erase ? 'from' : 'to'} the ${r.role === 'liver' ? 'liver' : 'lesion'} mask (${r.changed} voxels)`;
+      const before = await saveGrownMask(appDb(), patientId, visitId, r.role, r, {
+        brush: r.erase ? 'erase' : 'add', centreMm: [...r.seedMm], radiusMm: r.radiusMm, voxels: r.changed,
+      });
+      setUndo((u) => [...u, { role: r.role, before, what }]);
+      onAccepted(`Brush: ${what}; the analysis is updating.`);
+    } catch (e) {
+      setProblem(errorText(e));
+    } finally {
+      setSaving(false);
+    }
+  };
+  const undoLast = async () => {
+    const step = undo[undo.length - 1];
+    if (!step) return;
+    setSaving(true);
+    try {
+      await restoreMask(appDb(), patientId, visitId, step.role, step.before);
+      setUndo((u) => u.slice(0, -1));
+      onAccepted(`Undone: ${step.what}.`);
+    } catch (e) {
+      setProblem(errorText(e));
+    } finally {
+      setSaving(false);
+    }
+  };
+
+  const accept = async () => {
+    if (!result || result.kind === 'brush') return;
+    setSaving(true);
+    try {
+      let before: VolumeRecord | undefined;
       if (result.kind === 'liver') {
         const p = result.params;
-        await saveGrownMask(appDb(), patientId, visitId, 'liver', result, {
+        before = await saveGrownMask(appDb(), patientId, visitId, 'liver', result, {
           seedMm: [...result.seedMm], window: [...p.window], openingMm: p.openingMm, closingMm: p.closingMm,
           smoothingSteps: p.smoothingSteps, conductance: p.conductance, fillHoles: p.fillHoles,
         });
+        setUndo((u) => [...u, { role: 'liver', before, what: 'the grown liver mask' }]);
         onAccepted(`Liver mask of ${result.volumeMl.toFixed(0)} mL stored for visit ${visitId}; the segment map and analysis are updating.`);
       } else {
-        await saveGrownMask(appDb(), patientId, visitId, 'lesions', result, {
+        before = await saveGrownMask(appDb(), patientId, visitId, 'lesions', result, {
           seedMm: [...result.seedMm], kind: result.lesionKind, threshold: result.threshold, maxRadiusMm: result.params.maxRadiusMm,
         });
+        setUndo((u) => [...u, { role: 'lesions', before, what: 'the grown lesion' }]);
         onAccepted(`Lesion of ${result.volumeMl.toFixed(2)} mL added to the lesion mask of visit ${visitId}; the analysis is updating.`);
       }
       setResult(null);
@@ -107,6 +159,25 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
         <button type="button" aria-pressed={picking === 'lesion'} disabled={running || busy || saving} data-testid="grow-lesion"
           onClick={() => onPicking(picking === 'lesion' ? null : 'lesion')}>Lesion from a click</button>
       </div>
+      <h4 className="grow-subtitle">Brush</h4>
+      <div className="grow-settings">
+        {number('Brush radius (mm)', brushMm, setBrushMm, 'brush-radius', 0.5, 50, 0.5)}
+        <label className="grow-setting">
+          Edits
+          <select value={brushRole} onChange={(e) => setBrushRole(e.target.value as MaskRole)} data-testid="brush-role">
+            <option value="liver">liver mask</option>
+            <option value="lesions">lesion mask</option>
+          </select>
+        </label>
+      </div>
+      <div className="grow-buttons">
+        <button type="button" aria-pressed={picking === 'brush-add'} disabled={running || busy || saving} data-testid="brush-add"
+          onClick={() => onPicking(picking === 'brush-add' ? null : 'brush-add')}>Add</button>
+        <button type="button" aria-pressed={picking === 'brush-erase'} disabled={running || busy || saving} data-testid="brush-erase"
+          onClick={() => onPicking(picking === 'brush-erase' ? null : 'brush-erase')}>Erase</button>
+        <button type="button" disabled={undo.length === 0 || running || busy || saving} data-testid="mask-undo" onClick={() => void undoLast()}
+          title={undo.length ? `Undo: ${undo[undo.length - 1].what}` : 'Nothing to undo'}>Undo{undo.length ? ` (${undo.length})` : ''}</button>
+      </div>
       {running && (
         <div className="analysis-progress" role="status" data-testid="grow-progress">
           <progress max={100} value={progress.done} />
@@ -114,7 +185,7 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
         </div>
       )}
       {problem && <p className="notice problem" role="alert" data-testid="grow-problem">{problem}</p>}
-      {result && (
+      {result && result.kind !== 'brush' && (
         <div className="grow-result" data-testid="grow-result">
           {result.kind === 'liver' ? (
             <>

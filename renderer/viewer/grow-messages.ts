@@ -5,7 +5,8 @@ import type { LiverParams } from '../../src/image/grow-liver';
 /** Grow a liver mask or a lesion on a stored visit's scan (renderer/workers/grow.worker.ts). */
 export type GrowRequest =
   | { kind: 'liver'; patientId: string; visitId: string; seedMm: Vec3; params: Partial<LiverParams> }
-  | { kind: 'lesion'; patientId: string; visitId: string; seedMm: Vec3; params: Partial<LesionParams> };
+  | { kind: 'lesion'; patientId: string; visitId: string; seedMm: Vec3; params: Partial<LesionParams> }
+  | { kind: 'brush'; patientId: string; visitId: string; seedMm: Vec3; role: 'liver' | 'lesions'; radiusMm: number; erase: boolean };
 
 export interface GrownLiver {
   kind: 'liver';
@@ -40,4 +41,17 @@ export interface GrownLesion {
   affine: number[];
 }
 
-export type GrowResult = GrownLiver | GrownLesion;
+/** A brush dab on the stored liver or lesion mask, as .nii.gz bytes on that mask's grid. */
+export interface BrushedMask {
+  kind: 'brush';
+  role: 'liver' | 'lesions';
+  erase: boolean;
+  seedMm: Vec3;
+  radiusMm: number;
+  changed: number;
+  bytes: Uint8Array;
+  dims: number[];
+  affine: number[];
+}
+
+export type GrowResult = GrownLiver | GrownLesion | BrushedMask;

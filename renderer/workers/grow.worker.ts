@@ -2,12 +2,13 @@
 // Grows a liver mask from a seed, or one lesion from a click, on a stored visit's scan, off the
 // window's thread, with the core's growers (the same as `falciform liver` and `falciform lesion`).
 // The result comes back as .nii.gz bytes on the scan's grid, so accepting it only stores them.
+import { paintBall } from '../../src/image/brush';
 import { growLesion } from '../../src/image/grow-lesion';
 import { growLiver } from '../../src/image/grow-liver';
 import { visitSegmentMap } from '../../src/patient/visit-map';
 import { encodeNifti } from '../../src/volume/nifti-write';
 import { resampleNearest } from '../../src/volume/resample';
-import { makeVolume, type Volume } from '../../src/volume/volume';
+import { makeVolume, voxelIndexAtWorld, type Volume } from '../../src/volume/volume';
 import { webGzip } from '../../src/volume/web-gzip';
 import { storedPatient } from '../analysis/store-source';
 import { appDb } from '../store/db';
@@ -18,6 +19,20 @@ async function grow(req: GrowRequest, progress: (done: number, total: number, st
   const { manifest, files } = await storedPatient(appDb(), req.patientId);
   const v = manifest.visits.find((x) => x.id === req.visitId);
   if (!v) throw new Error(`visit ${req.visitId} is not among ${req.patientId}'s stored visits`);
+  if (req.kind === 'brush') {
+    const path = req.role === 'liver' ? v.liver : v.lesions;
+    if (path === undefined) throw new Error(req.role === 'liver' ? 'this visit has no liver mask to edit; grow one first' : 'this visit has no lesion mask to edit; grow a lesion first');
+    progress(0, 100, 'reading the mask');
+    const mask = labelsAsBytes((await files.volume(path)).volume);
+    const centre = voxelIndexAtWorld(mask, req.seedMm);
+    const labels = new Set<number>();
+    for (let n = 0; n < mask.data.length; n++) if (mask.data[n]) labels.add(mask.data[n]);
+    // Adding to a lesion mask extends the lesion under the brush, or a binary mask's one value.
+    const value = req.erase ? 0 : req.role === 'liver' ? 1 : centre >= 0 && mask.data[centre] ? mask.data[centre] : labels.size === 1 ? [...labels][0] : Math.max(0, ...labels) + 1;
+    const { data, changed } = paintBall(mask, req.seedMm, req.radiusMm, value);
+    const bytes = await webGzip(encodeNifti(makeVolume(mask.dims, data, mask.affine, 'uint8'), 'uint8'));
+    return { kind: 'brush', role: req.role, erase: req.erase, seedMm: req.seedMm, radiusMm: req.radiusMm, changed, bytes, dims: [...mask.dims], affine: [...mask.affine] };
+  }
   progress(0, 100, 'reading the scan');
   const scan = (await files.volume(v.scan)).volume;
   const grid = { dims: [...scan.dims], affine: [...scan.affine] };
@@ -47,6 +62,17 @@ async function visitLiver(v: Awaited<ReturnType<typeof storedPatient>>['manifest
   if (v.liver !== undefined) return (await files.volume(v.liver)).volume;
   const read = { volume: async (_r: string, p: string) => (await files.volume(p)).volume, text: (_r: string, p: string) => files.text(p), name: files.name };
   return (await visitSegmentMap(v, read, scan)).liver;
+}
+
+/** A mask's labels (after scaling) as one byte a voxel on its own grid. */
+function labelsAsBytes(mask: Volume): Volume {
+  const out = new Uint8Array(mask.data.length);
+  for (let n = 0; n < out.length; n++) {
+    const x = mask.data[n] * mask.slope + mask.inter;
+    if (x < 0 || x > 255 || !Number.isInteger(x)) throw new Error('the mask holds values that do not fit one byte; it cannot be edited with the brush');
+    out[n] = x;
+  }
+  return makeVolume(mask.dims, out, mask.affine, 'uint8');
 }
 
 /**

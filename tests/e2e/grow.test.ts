@@ -120,6 +120,26 @@ describe('grow from a click', () => {
     expect(await row.count()).toBe(1);
     expect(await row.getByTestId('lesion-margin').textContent()).toMatch(/^\d+\.\d|^—|^0/);
     await page.screenshot({ path: 'test-results/grow-lesion-accepted.png' });
+  });
+
+  it('erases a ball from the liver mask with the brush on the coronal plane, and undoes it', async () => {
+    await page.getByTestId('plane-coronal').click();
+    const liverBefore = Number(await page.getByTestId('liver-volume').textContent());
+    const inLiver = await pointWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
+    await page.getByTestId('brush-radius').fill('10');
+    await page.getByTestId('brush-erase').click();
+    await page.mouse.click(inLiver.x, inLiver.y);
+    await expect.poll(async () => (await page.getByTestId('edit-notice').textContent()) ?? '', { timeout: 60_000 }).toMatch(/Brush: erased a 10 mm ball from the liver mask \(\d+ voxels\)/);
+    await expect.poll(async () => Number(await page.getByTestId('liver-volume').textContent()), { timeout: 120_000 }).toBeLessThan(liverBefore);
+    const erased = Number(await page.getByTestId('liver-volume').textContent());
+    // A 10 mm ball is 4.19 mL (4/3·π·10³ mm³); on this coarse grid within 25%.
+    expect(liverBefore - erased).toBeGreaterThan(4.19 * 0.75);
+    expect(liverBefore - erased).toBeLessThan(4.19 * 1.25);
+    await page.keyboard.press('Escape');
+    await page.screenshot({ path: 'test-results/grow-brush-erased.png' });
+    await page.getByTestId('mask-undo').click();
+    await expect.poll(async () => Number(await page.getByTestId('liver-volume').textContent()), { timeout: 120_000 }).toBe(liverBefore);
+    expect(await page.getByTestId('edit-notice').textContent()).toMatch(/^Undone: erased a 10 mm ball/);
     expect(errors).toEqual([]);
   });
 });
