@@ -36,6 +36,7 @@ describe('grow from a click', () => {
   };
   /** A screen point whose readout passes `want`, scanning a coarse grid over the image. */
   const pointWhere = async (want: (readout: string) => boolean): Promise<{ x: number; y: number; text: string }> => {
+    await viewer().scrollIntoViewIfNeeded();
     const box = (await viewer().boundingBox())!;
     for (let fy = 0.25; fy <= 0.75; fy += 0.025) {
       for (let fx = 0.2; fx <= 0.8; fx += 0.025) {
