@@ -16,6 +16,8 @@ import { useStored } from '../store/use-stored';
 import { markFromCaliper, nextMarkId } from '../viewer/caliper';
 import { LandmarkPanel, type LandmarkMode } from '../viewer/LandmarkPanel';
 import { landmarkProblems, landmarkQcNotes, LANDMARK_LABELS, type LandmarkNotes } from '../viewer/landmark-qc';
+import { diameterMarks, lesionOfDiameter } from '../viewer/diameter-marks';
+import { GrowPanel, type GrowKind } from '../viewer/GrowPanel';
 import { LesionPanel } from '../viewer/LesionPanel';
 import { SegmentPanel } from '../viewer/SegmentPanel';
 import { displayMmOfWorld, PLANES, sliceLayout, sliceStepTowardsPlus, type Plane, type SliceLayout } from '../viewer/slice';
@@ -91,12 +93,16 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const [rebuilding, setRebuilding] = useState<{ label: string; volumes: VisitVolumes | null; analysis: unknown } | null>(null);
   const [landmarkStatus, setLandmarkStatus] = useState<string | null>(null);
   const [placing, setPlacing] = useState<LandmarkName | null>(null);
+  const [growPick, setGrowPick] = useState<GrowKind | null>(null);
+  const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3 } | null>(null);
 
   const result = analysis?.visits.find((v) => v.id === visitId) ?? null;
   const record = inputs?.record ?? null;
   const layouts = useMemo(() => (volumes ? layoutsOf(volumes) : null), [volumes]);
   const layout = layouts?.[prefs.plane] ?? null;
   const marks = useMemo(() => inputs?.marks ?? [], [inputs]);
+  // Mask lesions' measured diameters are drawn beside the marks' calipers.
+  const drawnMarks = useMemo(() => [...marks, ...diameterMarks(result?.analysis.lesions ?? [])], [marks, result]);
 
   const storedPresets = useStored(() => getSetting(db, 'windowPresets'), [db]);
   const presets: readonly WindowPreset[] = storedPresets?.length ? storedPresets : CT_PRESETS;
@@ -159,7 +165,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           case '[': openVisit(previous); return true;
           case ']': openVisit(next); return true;
           case 'o': case 'O': setPrefs((p) => ({ ...p, showSegments: !p.showSegments })); return true;
-          case 'Escape': setDraft(null); setTool('look'); setHint(null); setPlacing(null); return true;
+          case 'Escape': setDraft(null); setTool('look'); setHint(null); setPlacing(null); setGrowPick(null); return true;
           default: return false;
         }
       })();
@@ -326,9 +332,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               showSegments={prefs.showSegments}
               opacity={prefs.opacity}
               tool={tool}
-              marks={marks}
+              marks={drawnMarks}
               selected={selected}
-              onSelect={setSelected}
+              onSelect={(id) => setSelected(lesionOfDiameter(id))}
               draft={draft}
               onDraft={setDraft}
               onMoveMarkEnd={moveMarkEnd}
@@ -337,6 +343,11 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               onMoveLandmark={(name, p) => void moveLandmark(name, p)}
               placing={placing}
               onHint={setHint}
+              onPick={growPick ? (p) => {
+                setGrowSeed({ kind: growPick, p });
+                // The brush stays in hand for the next dab; a grower takes one click.
+                if (!growPick.startsWith('brush')) { setGrowPick(null); setHint(null); }
+              } : undefined}
             />
           ) : (
             loading.status !== 'failed' && <div className="slice-placeholder" aria-hidden="true" />
@@ -372,6 +383,20 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             onCancelDraft={() => setDraft(null)}
             onShortAxis={setShortAxis}
             onDelete={(id) => setConfirm({ kind: 'delete', id })}
+            busy={busy}
+          />
+          <GrowPanel
+            patientId={patient.id}
+            visitId={visitId}
+            picking={growPick}
+            onPicking={(k) => {
+              setGrowPick(k);
+              setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).'
+                : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).'
+                  : k ? `Click on any plane to ${k === 'brush-add' ? 'add' : 'erase'} a ball of the brush radius; each click is stored and can be undone (Esc ends).` : null);
+            }}
+            seed={growSeed}
+            onAccepted={(text) => void edit(async () => text, { volumes: true })}
             busy={busy}
           />
           <LandmarkPanel

@@ -43,6 +43,8 @@ interface Props {
   /** A landmark waiting to be put where the reader clicks next. */
   placing: LandmarkName | null;
   onHint(text: string | null): void;
+  /** When given, a click picks a world point (a seed for growing) instead of the tool's action. */
+  onPick?(p: Vec3): void;
 }
 
 const ORIENTATION: Record<SliceLayout['plane'], { left: string; right: string; top: string; bottom: string }> = {
@@ -314,6 +316,11 @@ export function SliceViewer(props: Props) {
       if (p) props.onMoveLandmark(props.placing, p);
       return;
     }
+    if (props.onPick) {
+      const p = worldAt(x, y);
+      if (p) props.onPick(p);
+      return;
+    }
     if (tool === 'mark') {
       if (layout.plane !== 'axial') {
         props.onHint('Lesions are measured on axial slices (RECIST): switch to the axial plane to mark one.');
@@ -447,7 +454,7 @@ export function SliceViewer(props: Props) {
     <div className="slice-viewer">
       <div
         ref={box}
-        className={`slice-box tool-${props.placing ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
+        className={`slice-box tool-${props.placing || props.onPick ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
         tabIndex={0}
         aria-label={`${PLANE_LABELS[layout.plane]} image, slice ${slice + 1} of ${layout.depth}. Arrow keys or wheel change the slice.`}
         data-testid="slice-viewer"

@@ -55,7 +55,7 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
   let segmentProblem: string | null = null;
   try {
     const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
-    const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read);
+    const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
     warnings.push(...mapWarnings);
     const names = new Set(map.scheme.values());
     segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };

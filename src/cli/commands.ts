@@ -3,6 +3,8 @@ import { batch } from './commands/batch.js';
 import { convert } from './commands/convert.js';
 import { followup } from './commands/followup.js';
 import { inspect } from './commands/inspect.js';
+import { lesion } from './commands/lesion.js';
+import { liver } from './commands/liver.js';
 import { report } from './commands/report.js';
 import { segments } from './commands/segments.js';
 
@@ -13,4 +15,4 @@ export interface Command {
   run(argv: readonly string[]): Promise<void>;
 }
 
-export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report, batch, convert };
+export const commands: Record<string, Command> = { inspect, segments, analyze, followup, report, batch, convert, liver, lesion };

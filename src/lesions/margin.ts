@@ -1,4 +1,6 @@
 import type { Vec3 } from '../geometry/mat4.js';
+import type { Box } from '../image/box.js';
+import { squaredDistanceInBox } from '../image/distance.js';
 import type { SegmentMap, SegmentName } from '../segments/segment-map.js';
 import { sameGrid } from '../volume/resample.js';
 import type { Volume } from '../volume/volume.js';
@@ -61,11 +63,6 @@ export function markMargin(map: SegmentMap, centreMm: Vec3, longestMm: number, o
   });
   if (!near) return NONE;
   return { marginMm: Math.max(0, near.distanceMm - longestMm / 2), nearestOtherSegment: segmentName(seg(near.index)) };
-}
-
-interface Box {
-  i0: number; j0: number; k0: number;
-  bx: number; by: number; bz: number;
 }
 
 /** Index-space bounding box of the voxels, grown by `grow` voxels per axis and clipped to the grid. */
@@ -131,14 +128,7 @@ function marginByDistanceTransform(
     const k = (n - i - nx * j) / (nx * ny);
     d2[i - i0 + bx * (j - j0 + by * (k - k0))] = 0;
   }
-  const longest = Math.max(bx, by, bz);
-  const line = new Float64Array(longest);
-  const out = new Float64Array(longest);
-  const v = new Int32Array(longest);
-  const z = new Float64Array(longest + 1);
-  transformAxis(d2, bx, by * bz, 1, bx, sp[0] * sp[0], line, out, v, z);
-  for (let k = 0; k < bz; k++) transformAxis(d2, by, bx, bx, 1, sp[1] * sp[1], line, out, v, z, k * bx * by);
-  transformAxis(d2, bz, bx * by, bx * by, 1, sp[2] * sp[2], line, out, v, z);
+  squaredDistanceInBox(d2, box, sp);
 
   let best = capMm * capMm * (1 + 1e-12);
   let bestSeg: SegmentIndex = BACKGROUND;
@@ -159,70 +149,6 @@ function marginByDistanceTransform(
     }
   }
   return bestSeg === BACKGROUND ? NONE : { marginMm: Math.sqrt(best), nearestOtherSegment: segmentName(bestSeg) };
-}
-
-/**
- * One pass of the distance transform along one box axis: `lines` lines of `n` samples `step` apart,
- * line l starting at base + l·lineStep. Lines with no finite value stay infinite.
- */
-function transformAxis(
-  d2: Float64Array,
-  n: number,
-  lines: number,
-  step: number,
-  lineStep: number,
-  w2: number,
-  f: Float64Array,
-  out: Float64Array,
-  v: Int32Array,
-  z: Float64Array,
-  base = 0,
-): void {
-  for (let l = 0; l < lines; l++) {
-    const start = base + l * lineStep;
-    let finite = false;
-    for (let q = 0; q < n; q++) {
-      const x = d2[start + q * step];
-      f[q] = x;
-      if (x !== Infinity) finite = true;
-    }
-    if (!finite) continue;
-    lowerEnvelope(f, n, w2, out, v, z);
-    for (let q = 0; q < n; q++) d2[start + q * step] = out[q];
-  }
-}
-
-/** 1-D squared distance transform of sampled function f with sample spacing² w2 (Felzenszwalb–Huttenlocher). */
-function lowerEnvelope(f: Float64Array, n: number, w2: number, out: Float64Array, v: Int32Array, z: Float64Array): void {
-  let k = -1;
-  for (let q = 0; q < n; q++) {
-    const fq = f[q];
-    if (fq === Infinity) continue;
-    if (k < 0) {
-      k = 0;
-      v[0] = q;
-      z[0] = -Infinity;
-      z[1] = Infinity;
-      continue;
-    }
-    let s: number;
-    for (;;) {
-      const p = v[k];
-      s = (fq + w2 * q * q - (f[p] + w2 * p * p)) / (2 * w2 * (q - p));
-      if (s <= z[k]) k--;
-      else break;
-    }
-    k++;
-    v[k] = q;
-    z[k] = s;
-    z[k + 1] = Infinity;
-  }
-  k = 0;
-  for (let q = 0; q < n; q++) {
-    while (z[k + 1] < q) k++;
-    const p = v[k];
-    out[q] = w2 * (q - p) * (q - p) + f[p];
-  }
 }
 
 /**

@@ -24,6 +24,8 @@ const visit = z
     segments: relPath.optional(),
     scheme: z.union([z.literal('default'), relPath]).optional(),
     liver: relPath.optional(),
+    /** Instead of `liver`: a point inside the liver (world RAS mm) the liver mask is grown from. */
+    liverSeedMm: z.tuple([z.number(), z.number(), z.number()]).optional(),
     landmarks: relPath.optional(),
     caudate: relPath.optional(),
     splitIV: z.boolean().optional(),
@@ -35,9 +37,12 @@ const visit = z
   })
   .superRefine((v, ctx) => {
     const hasMap = v.segments !== undefined;
-    const hasPlanes = v.liver !== undefined && v.landmarks !== undefined;
+    const hasPlanes = (v.liver !== undefined || v.liverSeedMm !== undefined) && v.landmarks !== undefined;
+    if (v.liver !== undefined && v.liverSeedMm !== undefined) {
+      ctx.addIssue({ code: 'custom', message: 'must give "liver" or "liverSeedMm", not both' });
+    }
     if (hasMap === hasPlanes) {
-      ctx.addIssue({ code: 'custom', message: 'must give either "segments" or both "liver" and "landmarks"' });
+      ctx.addIssue({ code: 'custom', message: 'must give either "segments" or both "liver" (or "liverSeedMm") and "landmarks"' });
     }
     // Marks may add to a lesion mask (lesions the mask missed); at least one of them is needed.
     if (v.lesions === undefined && v.marks === undefined) {

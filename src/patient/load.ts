@@ -91,13 +91,13 @@ async function loadVisit(
   const axis = axialAxis(scan.affine);
   const sliceThicknessMm = scan.spacingMm[axis];
 
-  const visitMap = await visitSegmentMap(v, { volume, text, name: path });
+  const visitMap = await visitSegmentMap(v, { volume, text, name: path }, scan);
   warnings.push(...visitMap.warnings);
   const segments = visitMap.map;
   const landmarks = visitMap.landmarks;
   // An imported map's labelled voxels are all liver: its own outline serves for alignment.
   const liver: LiverShape | null = describeLiver(visitMap.liver);
-  if (liver === null) throw badFile(files.segments ?? files.liver, 'holds no liver voxels');
+  if (liver === null) throw badFile(files.segments ?? files.liver ?? files.scan, 'holds no liver voxels');
 
   const lesionMask = v.lesions !== undefined ? await volume('lesions', v.lesions) : undefined;
   const marks = v.marks !== undefined ? parseMarks(await text('marks', v.marks), path(v.marks)) : undefined;

@@ -1,3 +1,5 @@
+import { badInput } from '../errors.js';
+import { growLiver } from '../image/grow-liver.js';
 import type { ManifestVisit } from '../manifest/manifest.js';
 import { buildSegmentMap } from '../segments/build.js';
 import { importSegmentMap } from '../segments/import.js';
@@ -14,7 +16,7 @@ export interface VisitReader {
 }
 
 /** The manifest fields a visit's segment map comes from. */
-export type MapFiles = Pick<ManifestVisit, 'segments' | 'scheme' | 'liver' | 'landmarks' | 'caudate' | 'splitIV'>;
+export type MapFiles = Pick<ManifestVisit, 'segments' | 'scheme' | 'liver' | 'liverSeedMm' | 'landmarks' | 'caudate' | 'splitIV'>;
 
 export interface VisitMap {
   map: SegmentMap;
@@ -27,24 +29,35 @@ export interface VisitMap {
 
 /**
  * A visit's segment map: the imported one with its scheme, or one built by the plane rule from the
- * liver mask, landmark set and optional caudate mask. The one rule the analysis and the viewer share.
+ * liver mask (or one grown on `scan` from `liverSeedMm`), landmark set and optional caudate mask.
+ * The one rule the analysis and the viewer share.
  */
-export async function visitSegmentMap(v: MapFiles, read: VisitReader): Promise<VisitMap> {
+export async function visitSegmentMap(v: MapFiles, read: VisitReader, scan?: Volume): Promise<VisitMap> {
   if (v.segments !== undefined) {
     const labels = await read.volume('segments', v.segments);
     const scheme = v.scheme === undefined || v.scheme === 'default' ? 'default' : parseScheme(await read.text('scheme', v.scheme), read.name(v.scheme));
     const imported = importSegmentMap(labels, scheme, read.name(v.segments));
     return { map: imported.map, source: 'imported', liver: labels, warnings: imported.warnings };
   }
-  const liver = await read.volume('liver', v.liver as string);
+  const seedWarnings: string[] = [];
+  let liver: Volume;
+  if (v.liver !== undefined) liver = await read.volume('liver', v.liver);
+  else {
+    if (!scan || !v.liverSeedMm) throw badInput('visit', 'a liver seed needs the visit\'s scan');
+    const grown = growLiver({ scan, seedsMm: [v.liverSeedMm] });
+    liver = grown.mask;
+    const [lo, hi] = grown.params.window;
+    seedWarnings.push(`liver mask grown from the seed (${v.liverSeedMm.join(', ')}) mm: ${grown.volumeMl.toFixed(0)} mL, ` +
+      `window ${lo.toFixed(0)}–${hi.toFixed(0)}, opening ${grown.params.openingMm} mm; check it before relying on the segments`, ...grown.warnings);
+  }
   const landmarks = parseLandmarks(await read.text('landmarks', v.landmarks as string), read.name(v.landmarks as string));
   const caudate = v.caudate !== undefined ? await read.volume('caudate', v.caudate) : undefined;
   const built = buildSegmentMap(liver, landmarks, {
     caudate,
     splitIV: v.splitIV,
     file: read.name(v.landmarks as string),
-    liverFile: read.name(v.liver as string),
+    liverFile: v.liver !== undefined ? read.name(v.liver) : 'liver grown from the seed',
     ...(v.caudate !== undefined ? { caudateFile: read.name(v.caudate) } : {}),
   });
-  return { map: built.map, source: 'built', liver, landmarks, warnings: built.warnings };
+  return { map: built.map, source: 'built', liver, landmarks, warnings: [...seedWarnings, ...built.warnings] };
 }

@@ -30,13 +30,22 @@ describe('study manifest', () => {
   it('names the file and the field for each problem', () => {
     expect(() => parseManifest('{"patient":', 'p/manifest.json')).toThrow(/^p\/manifest\.json: is not valid JSON/);
     const noMap = { ...example, visits: [{ id: 'v1', date: '2026-01-12', scan: 's', lesions: 'l' }] };
-    expect(() => parse(noMap)).toThrow(/p\/manifest\.json: field visits\[0\] must give either "segments" or both "liver" and "landmarks"/);
+    expect(() => parse(noMap)).toThrow(/p\/manifest\.json: field visits\[0\] must give either "segments" or both "liver" \(or "liverSeedMm"\) and "landmarks"/);
     const badDate = { ...example, visits: [{ ...example.visits[1], date: '2026-02-30' }] };
     expect(() => parse(badDate)).toThrow(/field visits\[0\]\.date must be a real date/);
     const twice = { ...example, visits: [example.visits[1], { ...example.visits[0], id: 'v1' }] };
     expect(() => parse(twice)).toThrow(/repeats visit id "v1"/);
     expect(() => parse({ ...example, extra: 1 })).toThrow(/p\/manifest\.json: /);
     expect(() => parse({ ...example, visits: [] })).toThrow(/at least one visit/);
+  });
+
+  it('takes a liver seed point instead of a liver mask, not both', () => {
+    const seeded = { ...example, visits: [{ id: 'v1', date: '2026-01-12', scan: 's', liverSeedMm: [70, 0, 30], landmarks: 'l.json', marks: 'm.json' }] };
+    expect(parse(seeded).visits[0].liverSeedMm).toEqual([70, 0, 30]);
+    const both = { ...example, visits: [{ ...seeded.visits[0], liver: 'liver.nii.gz' }] };
+    expect(() => parse(both)).toThrow(/must give "liver" or "liverSeedMm", not both/);
+    const short = { ...example, visits: [{ ...seeded.visits[0], liverSeedMm: [70, 0] }] };
+    expect(() => parse(short)).toThrow(/visits\[0\]\.liverSeedMm/);
   });
 
   it('resolves paths relative to the manifest folder', () => {
