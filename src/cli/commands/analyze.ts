@@ -35,10 +35,10 @@ export const analyze: Command = {
     const marginMm = numberOption(args, 'margin-mm', DEFAULT_MARGIN_MM);
 
     const warnings: string[] = [];
-    // All inputs at once: each inflates on the thread pool while the others are read, so the visit
-    // costs about its largest file. Warnings keep the order of the files on the command line.
-    const [scanLoaded, mapLoaded, maskLoaded, marksText] = await Promise.all([
-      loadVolume(scanFile),
+    // The scan first, alone: its compressed bytes are let go before anything else is held. Then the
+    // label volumes at once, each inflating on the thread pool. Warnings keep the files' order.
+    const scanLoaded = await loadVolume(scanFile);
+    const [mapLoaded, maskLoaded, marksText] = await Promise.all([
       visitMap(segmentsFile, schemeFile, liverFile, landmarksFile),
       lesionsFile !== undefined ? loadVolume(lesionsFile) : undefined,
       marksFile !== undefined ? readTextFile(marksFile) : undefined,
