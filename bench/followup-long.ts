@@ -31,6 +31,20 @@ function lesionsAt(visit: number): BenchLesion[] {
   });
 }
 
+/** Page script: after `delayMs`, opens the patient's Course tab; resolves with the ms until its charts are drawn. */
+function openCourse(delayMs: number): string {
+  return `new Promise((resolve) => setTimeout(() => {
+    const t0 = performance.now();
+    window.location.hash = '#/patient/${PATIENT}?tab=course';
+    const check = () => {
+      const drawn = document.querySelector('[data-testid="chart-response"]') && !document.querySelector('[data-testid="analysis-progress"]');
+      if (drawn) requestAnimationFrame(() => resolve(performance.now() - t0));
+      else requestAnimationFrame(check);
+    };
+    check();
+  }, ${delayMs}))`;
+}
+
 function timedRun(cmd: string, args: string[]): { wallS: number; stdout: string } {
   const r = spawnSync('/usr/bin/time', ['-f', 'BENCH %e', cmd, ...args], { encoding: 'utf8', maxBuffer: 1 << 26 });
   const line = r.stderr.trim().split('\n').reverse().find((l) => l.startsWith('BENCH '));
@@ -72,30 +86,10 @@ try {
   try {
     const importS = await importFolder(app.page, folder, PATIENT);
     console.log(`import of the 12 visits through the app: ${importS.toFixed(1)} s`);
-    const courseMs = await app.page.evaluate<number>(`new Promise((resolve) => {
-      const t0 = performance.now();
-      window.location.hash = '#/patient/${PATIENT}?tab=course';
-      const check = () => {
-        const drawn = document.querySelector('[data-testid="chart-response"]') && !document.querySelector('[data-testid="analysis-progress"]');
-        if (drawn) requestAnimationFrame(() => resolve(performance.now() - t0));
-        else requestAnimationFrame(check);
-      };
-      check();
-    })`);
+    const courseMs = await app.page.evaluate<number>(openCourse(0));
     console.log(`app Course tab, opened → charts drawn with the analysis done: ${(courseMs / 1000).toFixed(2)} s (aim < 1 s)`);
-    const again = await app.page.evaluate<number>(`new Promise((resolve) => {
-      window.location.hash = '#/';
-      setTimeout(() => {
-        const t0 = performance.now();
-        window.location.hash = '#/patient/${PATIENT}?tab=course';
-        const check = () => {
-          const drawn = document.querySelector('[data-testid="chart-response"]') && !document.querySelector('[data-testid="analysis-progress"]');
-          if (drawn) requestAnimationFrame(() => resolve(performance.now() - t0));
-          else requestAnimationFrame(check);
-        };
-        check();
-      }, 500);
-    })`);
+    await app.page.evaluate(`window.location.hash = '#/'`);
+    const again = await app.page.evaluate<number>(openCourse(500));
     console.log(`app Course tab opened a second time: ${(again / 1000).toFixed(2)} s`);
   } finally {
     await app.close();
