@@ -1,4 +1,4 @@
-// Benchmark: loading a 512×512×300 int16 .nii.gz (a typical abdominal CT, 150 MB of voxels) against
+// Benchmark: loading a noisy CT-like 512×512×300 int16 .nii.gz (a typical abdominal CT, 150 MB of voxels) against
 // `gzip -dc FILE > /dev/null` on the same file in the same run. Prints figures; it asserts nothing.
 // Run: npx tsc -p tsconfig.node.json && node build/bench/nifti-load.js
 import { spawnSync } from 'node:child_process';
@@ -13,34 +13,10 @@ import { readNifti } from '../src/volume/nifti-read.js';
 import { encodeNifti } from '../src/volume/nifti-write.js';
 import { webInflate } from '../src/volume/web-gzip.js';
 import { makeVolume } from '../src/volume/volume.js';
+import { coreLine, CT_VISIT, makeVisitVolumes } from './ct-visit.js';
 
 const ROUNDS = 5;
-const dims = [512, 512, 300] as const;
-
-/** A CT-like phantom: air around an elliptic body, soft tissue, a brighter liver, a spine, noise. */
-function phantom(): Int16Array {
-  const [nx, ny, nz] = dims;
-  const data = new Int16Array(nx * ny * nz);
-  let seed = 7;
-  let n = 0;
-  for (let k = 0; k < nz; k++) {
-    for (let j = 0; j < ny; j++) {
-      for (let i = 0; i < nx; i++, n++) {
-        seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
-        const noise = ((seed >>> 16) % 41) - 20;
-        const x = (i - 256) / 220, y = (j - 256) / 160;
-        const lx = (i - 180) / 90, ly = (j - 230) / 70, lz = (k - 150) / 110;
-        const sx = (i - 256) / 25, sy = (j - 370) / 25;
-        let v = -1000;
-        if (x * x + y * y < 1) v = 40;
-        if (lx * lx + ly * ly + lz * lz < 1) v = 60;
-        if (sx * sx + sy * sy < 1) v = 700;
-        data[n] = v + (v > -1000 ? noise : noise >> 2);
-      }
-    }
-  }
-  return data;
-}
+const dims = CT_VISIT.dims;
 
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
@@ -64,10 +40,11 @@ const file = join(dir, 'ct.nii.gz');
 try {
   const t0 = performance.now();
   const affine = [0.7, 0, 0, -179, 0, 0.7, 0, -179, 0, 0, 1, -150, 0, 0, 0, 1];
-  const raw = encodeNifti(makeVolume(dims, phantom(), affine, 'int16'), 'int16');
+  const raw = encodeNifti(makeVolume(dims, makeVisitVolumes(CT_VISIT).scan, affine, 'int16'), 'int16');
   writeFileSync(file, gzipSync(raw, { level: 6 }));
-  console.log(`generated ${file}: ${(statSync(file).size / 1e6).toFixed(1)} MB gzip of ${(raw.length / 1e6).toFixed(1)} MB in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
-  console.log(`node ${process.version}, ${ROUNDS} rounds each, median shown`);
+  console.log(`generated ${file} (noisy CT-like scan of bench/ct-visit.ts): ${(statSync(file).size / 1e6).toFixed(1)} MB gzip of ${(raw.length / 1e6).toFixed(1)} MB ` +
+    `(${(raw.length / statSync(file).size).toFixed(2)}:1) in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+  console.log(`${await coreLine()}, ${ROUNDS} rounds each, median shown`);
 
   const gzipMs = await time('gzip -dc FILE > /dev/null', () => {
     const r = spawnSync('sh', ['-c', 'gzip -dc "$1" > /dev/null', 'sh', file]);

@@ -2,6 +2,7 @@ import { badFile } from '../../src/errors.js';
 import { invertAffine, transformPoint, type Vec3 } from '../../src/geometry/mat4.js';
 import type { VolumeRole } from '../../src/model/records.js';
 import { importSegmentMap } from '../../src/segments/import.js';
+import { countLabelValues } from '../../src/segments/label-counts.js';
 import type { SegmentScheme } from '../../src/segments/segment-map.js';
 import { valueAt, type Volume } from '../../src/volume/volume.js';
 
@@ -12,24 +13,27 @@ export interface GridInfo {
   affine: readonly number[];
 }
 
-/** Labels must be whole numbers from 0 up; the masks a visit cannot do without must not be empty. */
+/**
+ * Labels must be whole numbers from 0 up; the masks a visit cannot do without must not be empty. One
+ * count of the label values serves every check, the segment map's own included; the voxels are walked
+ * again only to name the first bad one.
+ */
 export function checkMask(volume: Volume, role: Exclude<VolumeRole, 'scan'>, file: string, scheme: SegmentScheme | 'default'): string[] {
-  const n = volume.data.length;
-  let nonzero = 0;
-  for (let k = 0; k < n; k++) {
-    const v = valueAt(volume, k);
-    if (v === 0) continue;
-    if (!(v > 0) || !Number.isInteger(v)) {
-      throw badFile(file, `holds the value ${v} at voxel ${k}; a ${role} mask must hold whole-number labels from 0 up`);
+  const counts = countLabelValues(volume);
+  const bad = (v: number) => v !== 0 && (!(v > 0) || !Number.isInteger(v));
+  if ([...counts.keys()].some(bad)) {
+    for (let k = 0; k < volume.data.length; k++) {
+      const v = valueAt(volume, k);
+      if (bad(v)) throw badFile(file, `holds the value ${v} at voxel ${k}; a ${role} mask must hold whole-number labels from 0 up`);
     }
-    nonzero++;
   }
+  const nonzero = volume.data.length - (counts.get(0) ?? 0);
   const warnings: string[] = [];
   if (nonzero === 0) {
     if (role === 'lesions' || role === 'viable') warnings.push(`${file}: the ${role} mask is empty (no ${role === 'lesions' ? 'lesion' : 'viable'} voxels)`);
     else throw badFile(file, `the ${role} mask is empty (no voxel above 0)`);
   }
-  if (role === 'segments') warnings.push(...importSegmentMap(volume, scheme, file).warnings);
+  if (role === 'segments') warnings.push(...importSegmentMap(volume, scheme, file, counts).warnings);
   return warnings;
 }
 

@@ -1,4 +1,5 @@
 import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type PointerEvent as ReactPointerEvent, type ReactNode } from 'react';
+import { flushSync } from 'react-dom';
 import type { Vec3 } from '../../src/geometry/mat4';
 import { distance } from '../../src/geometry/vec3';
 import type { Mark } from '../../src/lesions/marks';
@@ -82,7 +83,9 @@ export function SliceViewer(props: Props) {
   const [size, setSize] = useState<{ w: number; h: number } | null>(null);
   const [view, setView] = useState<View | null>(null);
   const [drag, setDrag] = useState<Drag | null>(null);
-  const [readout, setReadout] = useState<Readout | null>(null);
+  // Where the pointer rests over the image: the readout is worked out from it on every render, so it
+  // follows the slice when the wheel changes it under a still pointer.
+  const [pointer, setPointer] = useState<{ x: number; y: number } | null>(null);
   const fitted = useRef(1);
   // Per-layout scratch: the slice image and its planes, reused for every slice.
   const scratch = useMemo(() => {
@@ -120,9 +123,10 @@ export function SliceViewer(props: Props) {
     setView(v);
   }, [size, widthMm, heightMm, layout.plane]);
 
-  // The slice image: rebuilt only when the slice, window or wash changes, not on pan or zoom.
-  const [imageVersion, setImageVersion] = useState(0);
-  useEffect(() => {
+  // The slice image: rebuilt only when the slice, window or wash changes, not on pan or zoom. Built and
+  // drawn before the browser paints (layout effects), so a new slice shows in the frame that asked for it.
+  const imageVersion = useRef(0);
+  useLayoutEffect(() => {
     const { width, height } = layout;
     extractSlice(volumes.scan, volumes.dims, layout, slice, scratch.scan);
     if (volumes.segments) extractSlice(volumes.segments.codes, volumes.dims, layout, slice, scratch.codes);
@@ -135,7 +139,8 @@ export function SliceViewer(props: Props) {
       extractSlice(volumes.lesions.labels, volumes.dims, layout, slice, scratch.labels);
       scratch.outlines = lesionOutlines(scratch.labels, width, height);
     } else scratch.outlines = [];
-    setImageVersion((n) => n + 1);
+    imageVersion.current++;
+    if (box.current) box.current.dataset.image = String(imageVersion.current);
   }, [volumes, layout, slice, props.window, props.showSegments, props.opacity, scratch]);
 
   const screenOf = useCallback((p: Vec3): { x: number; y: number; slice: number } | null => {
@@ -147,7 +152,7 @@ export function SliceViewer(props: Props) {
   const onThisSlice = (s: number) => Math.abs(s - slice) <= 0.5;
 
   // Everything drawn over the image, every render: cheap (one drawImage and a few paths).
-  useEffect(() => {
+  useLayoutEffect(() => {
     const c = canvas.current;
     if (!c || !size || !view) return;
     const dpr = window.devicePixelRatio || 1;
@@ -239,6 +244,11 @@ export function SliceViewer(props: Props) {
     }
   });
 
+  // The slice the wheel last asked for: notches arriving before the screen caught up add to it.
+  const wanted = useRef(slice);
+  useLayoutEffect(() => {
+    wanted.current = slice;
+  }, [slice]);
   // Wheel must be a non-passive listener to keep the page from scrolling.
   useEffect(() => {
     const el = box.current;
@@ -249,8 +259,12 @@ export function SliceViewer(props: Props) {
         const r = el.getBoundingClientRect();
         setView((v) => (v ? zoomAt(v, Math.exp(-e.deltaY * 0.0015), e.clientX - r.left, e.clientY - r.top, fitted.current) : v));
       } else if (e.deltaY !== 0) {
-        const step = sliceStepTowardsPlus(layout) * (e.deltaY < 0 ? 1 : -1);
-        props.onSlice(Math.min(layout.depth - 1, Math.max(0, slice + step)));
+        const step = sliceStepTowardsPlus(layout) * (e.deltaY < 0 ? 1 : -1) * wheelNotches(e);
+        const next = Math.min(layout.depth - 1, Math.max(0, wanted.current + step));
+        if (next === wanted.current) return;
+        wanted.current = next;
+        // Render and draw now, inside this event, rather than in a later task after the next paint.
+        flushSync(() => props.onSlice(next));
       }
     };
     el.addEventListener('wheel', onWheel, { passive: false });
@@ -284,22 +298,23 @@ export function SliceViewer(props: Props) {
     return null;
   };
 
-  const updateReadout = (sx: number, sy: number) => {
-    if (!view) return;
+  const readoutAt = (sx: number, sy: number): Readout | null => {
+    if (!view) return null;
     const [xMm, yMm] = toDisplayMm(view, sx, sy);
     const col = Math.floor(xMm / layout.colMm), row = Math.floor(yMm / layout.rowMm);
     const n = voxelIndexOfDisplay(layout, volumes.dims, col, row, slice);
-    if (n < 0) { setReadout(null); return; }
+    if (n < 0) return null;
     const code = volumes.segments?.codes[n] ?? 0;
     const l = volumes.lesions?.labels[n] ?? 0;
-    setReadout({
+    return {
       // The voxel's centre: the point whose value and segment are shown.
       world: worldOfDisplayMm(layout, volumes.affine, (col + 0.5) * layout.colMm, (row + 0.5) * layout.rowMm, slice),
       value: volumes.scan[n] * volumes.slope + volumes.inter,
       segment: volumes.segments ? segmentOfCode(code, volumes.segments.splitIV) ?? 'none' : null,
       lesion: l > 0 ? volumes.lesions!.ids[l - 1] : null,
-    });
+    };
   };
+  const readout = pointer ? readoutAt(pointer.x, pointer.y) : null;
 
   const onPointerDown = (e: ReactPointerEvent<HTMLDivElement>) => {
     if (!view || (e.target as HTMLElement).closest('.handle, .zoom-controls')) return;
@@ -337,7 +352,7 @@ export function SliceViewer(props: Props) {
 
   const onPointerMove = (e: ReactPointerEvent<HTMLDivElement>) => {
     const [x, y] = local(e);
-    updateReadout(x, y);
+    setPointer({ x, y });
     if (!drag || !view) return;
     if (drag.kind === 'pan') {
       const moved = drag.moved || Math.hypot(x - drag.x, y - drag.y) > 3;
@@ -460,12 +475,11 @@ export function SliceViewer(props: Props) {
         data-testid="slice-viewer"
         data-plane={layout.plane}
         data-slice={slice}
-        data-image={imageVersion}
         onPointerDown={onPointerDown}
         onPointerMove={onPointerMove}
         onPointerUp={onPointerUp}
         onPointerCancel={() => setDrag(null)}
-        onPointerLeave={() => setReadout(null)}
+        onPointerLeave={() => setPointer(null)}
         onContextMenu={(e) => e.preventDefault()}
         onDoubleClick={(e) => { if (!(e.target as HTMLElement).closest('.zoom-controls')) fit(); }}
       >
@@ -499,6 +513,16 @@ export function SliceViewer(props: Props) {
       </p>
     </div>
   );
+}
+
+/**
+ * Slices one wheel event moves. A mouse notch is about 100 px (Chromium, common practice) or 3 lines;
+ * events the browser merged carry several notches' delta and move as many slices. Smaller deltas
+ * (touchpads) move one slice each, as a notch would.
+ */
+function wheelNotches(e: WheelEvent): number {
+  const notch = e.deltaMode === WheelEvent.DOM_DELTA_LINE ? 3 : e.deltaMode === WheelEvent.DOM_DELTA_PAGE ? 1 : 100;
+  return Math.max(1, Math.round(Math.abs(e.deltaY) / notch));
 }
 
 function mid(a: Vec3, b: Vec3): Vec3 {

@@ -44,25 +44,49 @@ export interface ValueSummary {
 
 const BINS = 2048;
 
-/** Range and robust window of a volume's physical values, by a histogram (two passes, no sorting). */
+/**
+ * Stored-value histogram of a small integer type (a CT is int16) in one pass, with the offset that
+ * maps a value to its bin; null for wider or floating types.
+ */
+function integerHistogram(data: NumberArray): { hist: Float64Array; offset: number } | null {
+  const offset = data instanceof Int8Array ? 128 : data instanceof Int16Array ? 32768 : 0;
+  const size = data instanceof Uint8Array || data instanceof Int8Array ? 256 : data instanceof Uint16Array || data instanceof Int16Array ? 65536 : 0;
+  if (size === 0) return null;
+  const hist = new Float64Array(size);
+  for (let q = 0; q < data.length; q++) hist[data[q] + offset]++;
+  return { hist, offset };
+}
+
+/**
+ * Range and robust window of a volume's physical values, by a histogram (no sorting). Integer scans
+ * take one pass over the voxels, the rest of the work being on their histogram; other types two.
+ */
 export function summariseValues(data: NumberArray, slope: number, inter: number): ValueSummary {
   const n = data.length;
   if (n === 0) return { min: 0, max: 0, auto: { centre: 0, width: MIN_WIDTH }, looksLikeCt: false };
+  const ints = integerHistogram(data);
   let lo = Infinity, hi = -Infinity;
-  for (let q = 0; q < n; q++) {
-    const v = data[q];
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
+  if (ints) {
+    const { hist, offset } = ints;
+    for (let h = 0; h < hist.length; h++) if (hist[h] > 0) { lo = h - offset; break; }
+    for (let h = hist.length - 1; h >= 0; h--) if (hist[h] > 0) { hi = h - offset; break; }
+  } else {
+    for (let q = 0; q < n; q++) {
+      const v = data[q];
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
   }
   const a = lo * slope + inter, b = hi * slope + inter;
   const min = Math.min(a, b), max = Math.max(a, b);
   if (!(max > min)) return { min, max, auto: { centre: min, width: MIN_WIDTH }, looksLikeCt: false };
   const counts = new Float64Array(BINS);
   const scale = (BINS - 1) / (max - min);
-  for (let q = 0; q < n; q++) {
-    const v = data[q] * slope + inter;
-    if (v === v) counts[Math.floor((v - min) * scale)]++;
-  }
+  const add = (v: number, count: number) => {
+    if (v === v) counts[Math.floor((v - min) * scale)] += count;
+  };
+  if (ints) ints.hist.forEach((count, h) => { if (count > 0) add((h - ints.offset) * slope + inter, count); });
+  else for (let q = 0; q < n; q++) add(data[q] * slope + inter, 1);
   const at = (fraction: number) => {
     const want = fraction * n;
     let seen = 0;

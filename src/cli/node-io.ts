@@ -9,26 +9,36 @@ import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../volume/nifti-header.js
 import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
 
 /**
- * node:zlib inflater for readNifti: streams into one buffer sized up front and stops at
- * maxOutputBytes, so a gzip bomb never costs more than what the header justified.
+ * node:zlib inflater for readNifti, in one pass on libuv's thread pool: the output buffer is sized to
+ * the cap, so zlib inflates straight into it in a single call (no chunks to gather, no copy) and stops
+ * when it is full. A gzip bomb therefore never costs more than what the header justified, and several
+ * files inflate at once on the pool while the main thread waits.
  */
 export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
   new Promise((resolve, reject) => {
     const cap = inflateCapacity(gz, maxOutputBytes);
-    const out = new Uint8Array(cap);
+    let out: Uint8Array | undefined;
     let n = 0;
     let settled = false;
     const finish = (err?: Error) => {
       if (settled) return;
       settled = true;
       if (err) reject(err);
-      else resolve(n < cap ? out.subarray(0, n) : out);
+      else resolve(out ? out.subarray(0, n) : new Uint8Array(0));
     };
-    const z = createGunzip({ chunkSize: 1 << 20 });
+    // zlib's minimum output chunk is 64 bytes.
+    const z = createGunzip({ chunkSize: Math.max(64, cap) });
     z.on('data', (chunk: Buffer) => {
       if (settled) return;
       const take = Math.min(chunk.length, cap - n);
-      out.set(take === chunk.length ? chunk : chunk.subarray(0, take), n);
+      if (n === 0 && take === cap && chunk.byteOffset === 0 && chunk.buffer.byteLength === cap) {
+        // The usual case: zlib filled its own buffer of exactly the cap; keep it.
+        out = new Uint8Array(chunk.buffer, 0, cap);
+      } else {
+        // Short, multi-member or small (pooled) output: gather into a buffer of the cap.
+        out ??= new Uint8Array(cap);
+        out.set(chunk.subarray(0, take), n);
+      }
       n += take;
       if (n >= cap) {
         finish();

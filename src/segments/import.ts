@@ -13,8 +13,10 @@ export function importSegmentMap(
   labels: Volume,
   scheme: SegmentScheme | 'default',
   file: string,
+  /** The labels' counts when the caller has them already (`countLabelValues`), to spare a pass. */
+  counted?: Map<number, number>,
 ): { map: SegmentMap; unknownLabels: number[]; warnings: string[] } {
-  const counts = countLabelValues(labels);
+  const counts = counted ?? countLabelValues(labels);
   const chosen = scheme === 'default' ? defaultScheme(counts.has(9)) : scheme;
   const warnings: string[] = [];
   const unknownLabels: number[] = [];

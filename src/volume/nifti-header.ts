@@ -28,6 +28,16 @@ export interface NiftiInfo {
   /** Number of 3-D volumes (product of dims beyond the third). */
   volumeCount: number;
   description: string;
+  /** The header's geometry fields as stored, whichever of them the affine came from. */
+  stored: {
+    pixdim: number[];
+    /** quatern_b, quatern_c, quatern_d */
+    quatern: [number, number, number];
+    /** qoffset_x, qoffset_y, qoffset_z */
+    qoffset: [number, number, number];
+    /** srow_x, srow_y, srow_z */
+    srow: [number[], number[], number[]];
+  };
 }
 
 export interface ParsedHeader {
@@ -212,6 +222,7 @@ function interpret(h: RawHeader, file: string): ParsedHeader {
     format: h.format, dims, datatype, littleEndian: h.le, affineSource, slope, inter, affine,
     qformCode: h.qformCode, sformCode: h.sformCode, pair: h.pair, voxOffset,
     volumeBytes: voxelCount * bpv, volumeCount, description: h.description,
+    stored: { pixdim: h.pixdim, quatern: h.quatern, qoffset: h.qoffset, srow: h.srow },
   };
   return { info, warnings };
 }

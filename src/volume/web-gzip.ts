@@ -10,13 +10,25 @@ function plainBuffer(bytes: Uint8Array): Uint8Array<ArrayBuffer> {
   return bytes.buffer instanceof ArrayBuffer ? (bytes as Uint8Array<ArrayBuffer>) : new Uint8Array(bytes);
 }
 
-/** Inflates into one buffer sized up front, stopping (and cancelling the stream) at maxOutputBytes. */
+/**
+ * Inflates into one buffer sized up front, stopping (and cancelling the stream) at maxOutputBytes.
+ * The input goes in growing slices while the output is read, so a header read stops after the first
+ * slice instead of inflating the whole file (a stream inflates all of a chunk it is handed).
+ */
 export const webInflate: Inflate = async (gz, maxOutputBytes) => {
   const stream = new DecompressionStream('gzip');
   const writer = stream.writable.getWriter();
-  // Errors surface on the reading side; keep these promises from being reported as unhandled.
-  writer.write(plainBuffer(gz)).catch(() => undefined);
-  writer.close().catch(() => undefined);
+  const input = plainBuffer(gz);
+  let stopped = false;
+  // Errors surface on the reading side; the feeding side only stops.
+  void (async () => {
+    for (let at = 0, slice = 64 * 1024; at < input.length && !stopped; slice = Math.min(slice * 4, 16 * 1024 * 1024)) {
+      const end = Math.min(input.length, at + slice);
+      await writer.write(input.subarray(at, end));
+      at = end;
+    }
+    if (!stopped) await writer.close();
+  })().catch(() => undefined);
   const reader = stream.readable.getReader();
   const cap = inflateCapacity(gz, maxOutputBytes);
   let out = new Uint8Array(cap);
@@ -28,6 +40,7 @@ export const webInflate: Inflate = async (gz, maxOutputBytes) => {
     out.set(take === value.length ? value : value.subarray(0, take), n);
     n += take;
     if (n >= cap) {
+      stopped = true;
       await reader.cancel().catch(() => undefined);
       break;
     }

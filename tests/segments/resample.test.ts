@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { buildSegmentMap } from '../../src/segments/build.js';
+import { importSegmentMap } from '../../src/segments/import.js';
 import { resampleLabels } from '../../src/segments/volumes.js';
 import { parseScheme, SEGMENT_CODES } from '../../src/segments/scheme.js';
 import { segmentAtWorld } from '../../src/segments/segment-map.js';
@@ -33,5 +34,17 @@ describe('segment map on another grid (source: brief, geometry conventions: alwa
     const target = makeVolume([5, 1, 1], new Uint8Array(5), [1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1], 'uint8');
     // Target x = 0..4 mm; source voxels at 0, 2, 4 mm (ties at 1 and 3 mm round up).
     expect([...resampleLabels(custom, target)]).toEqual([7, 9, 9, 0, 0]);
+  });
+
+  it('on the same grid, a default-scheme map is its own codes; unknown values still turn to background', () => {
+    const affine = [1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1];
+    const same = makeVolume([6, 1, 1], new Uint8Array(6), affine, 'uint8');
+    const clean = importSegmentMap(makeVolume([6, 1, 1], Uint8Array.from([0, 1, 4, 9, 8, 8]), affine, 'uint8'), 'default', 's.nii').map;
+    const codes = resampleLabels(clean, same);
+    expect([...codes]).toEqual([0, 1, 4, 9, 8, 8]);
+    expect(codes).toBe(clean.labels.data);
+    // 12 is no segment of the default scheme: background on screen as in the analysis.
+    const odd = importSegmentMap(makeVolume([6, 1, 1], Uint8Array.from([0, 1, 12, 9, 8, 8]), affine, 'uint8'), 'default', 's.nii').map;
+    expect([...resampleLabels(odd, same)]).toEqual([0, 1, 0, 9, 8, 8]);
   });
 });

@@ -97,3 +97,22 @@ describe('label counts a map carries', () => {
     }
   });
 });
+
+describe('label counting of a uint8 map, four voxels a step', () => {
+  it('counts runs, mixed words and a ragged tail as one voxel at a time does', () => {
+    // Runs of one value (most of a map) beside words of mixed bytes (segment borders), aligned and not.
+    const n = 4096 + 3;
+    const bytes = new Uint8Array(n + 1);
+    let seed = 11;
+    for (let q = 0; q < bytes.length; q++) {
+      seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
+      bytes[q] = q < 2000 ? Math.floor(q / 97) % 3 : (seed >>> 24) % 10;
+    }
+    for (const data of [bytes.subarray(0, n), bytes.subarray(1)]) {
+      const byHand = new Map<number, number>();
+      for (const x of data) byHand.set(x, (byHand.get(x) ?? 0) + 1);
+      const counted = countLabelValues(makeVolume([data.length, 1, 1], data, [1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1], 'uint8'));
+      expect(new Map([...counted].sort((a, b) => a[0] - b[0]))).toEqual(new Map([...byHand].sort((a, b) => a[0] - b[0])));
+    }
+  });
+});

@@ -44,6 +44,18 @@ describe('window and level', () => {
     expect(hi).toBeLessThan(981);
     expect(summariseValues(new Uint16Array([0, 100, 400, 900]), 1, 0).looksLikeCt).toBe(false);
   });
+
+  it('an integer scan summarised from its histogram gives what the voxel-by-voxel float path gives', () => {
+    let seed = 5;
+    const data = new Int16Array(20000);
+    for (let n = 0; n < data.length; n++) {
+      seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
+      data[n] = n % 7 === 0 ? -1000 + (seed >>> 28) : 40 + ((seed >>> 16) % 61) - 30;
+    }
+    for (const [slope, inter] of [[1, 0], [0.5, -12], [-1, 3]]) {
+      expect(summariseValues(data, slope, inter)).toEqual(summariseValues(Float32Array.from(data), slope, inter));
+    }
+  });
 });
 
 describe('slice composition', () => {

@@ -35,12 +35,19 @@ export const analyze: Command = {
     const marginMm = numberOption(args, 'margin-mm', DEFAULT_MARGIN_MM);
 
     const warnings: string[] = [];
-    // One file at a time, largest first: each compressed file is dropped before the next is
-    // inflated, which keeps the peak near the inflated voxels themselves.
-    const scan = keep(await loadVolume(scanFile), warnings);
-    const segments = await visitMap(segmentsFile, schemeFile, liverFile, landmarksFile, warnings);
-    const lesionMask = lesionsFile !== undefined ? keep(await loadVolume(lesionsFile), warnings) : undefined;
-    const marks = marksFile !== undefined ? parseMarks(await readTextFile(marksFile), marksFile) : undefined;
+    // The scan first, alone: its compressed bytes are let go before anything else is held. Then the
+    // label volumes at once, each inflating on the thread pool. Warnings keep the files' order.
+    const scanLoaded = await loadVolume(scanFile);
+    const [mapLoaded, maskLoaded, marksText] = await Promise.all([
+      visitMap(segmentsFile, schemeFile, liverFile, landmarksFile),
+      lesionsFile !== undefined ? loadVolume(lesionsFile) : undefined,
+      marksFile !== undefined ? readTextFile(marksFile) : undefined,
+    ]);
+    const scan = keep(scanLoaded, warnings);
+    warnings.push(...mapLoaded.warnings);
+    const segments = mapLoaded.map;
+    const lesionMask = maskLoaded !== undefined ? keep(maskLoaded, warnings) : undefined;
+    const marks = marksText !== undefined ? parseMarks(marksText, marksFile as string) : undefined;
     const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile });
     analysis.warnings.unshift(...warnings);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(analysis))}\n`);
@@ -55,15 +62,15 @@ function keep(loaded: { volume: Volume; warnings: string[] }, warnings: string[]
 
 /** The map as a manifest visit would give it, read from the files named on the command line. */
 async function visitMap(segmentsFile: string | undefined, schemeFile: string | undefined, liverFile: string | undefined,
-  landmarksFile: string | undefined, warnings: string[]): Promise<SegmentMap> {
+  landmarksFile: string | undefined): Promise<{ map: SegmentMap; warnings: string[] }> {
+  const warnings: string[] = [];
   const visit = { segments: segmentsFile, scheme: schemeFile, liver: liverFile, landmarks: landmarksFile };
   const { map, warnings: mapWarnings } = await visitSegmentMap(visit, {
     volume: async (_role, path) => keep(await loadVolume(path), warnings),
     text: (_role, path) => readTextFile(path),
     name: (path) => path,
   });
-  warnings.push(...mapWarnings);
-  return map;
+  return { map, warnings: [...warnings, ...mapWarnings] };
 }
 
 // Printed precision: well below what a scan resolves, well above float noise.
