@@ -314,6 +314,7 @@ export function PatientList() {
       {loose && (
         <LooseFilesDialog
           files={loose}
+          patients={(rows ?? []).map((r) => r.patient.id)}
           onCancel={() => setLoose(null)}
           onImport={(details) => {
             const files = loose;

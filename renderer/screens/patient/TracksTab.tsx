@@ -77,7 +77,8 @@ export function TracksTab() {
     const v = seen[seen.length - 1];
     return v ? `${t.segments[v.id] ?? 'outside'}, ${t.longestAxialMm[v.id]} mm at ${v.id}` : '';
   };
-  const linkChoice = candidates.some((t) => t.id === linkTo) ? linkTo : (candidates[0]?.id ?? '');
+  // The lesion's own track is the default: nothing changes until the reader picks another.
+  const linkChoice = candidates.some((t) => t.id === linkTo) ? linkTo : (selTrack?.id ?? candidates[0]?.id ?? '');
   const name = (t: TrackSummary) => ({ ref: trackRef(t), label: t.id });
 
   return (
@@ -176,12 +177,13 @@ export function TracksTab() {
                 <label>
                   Link to
                   <select value={linkChoice} onChange={(e) => setLinkTo(e.target.value)} data-testid="link-track">
+                    {selTrack && <option value={selTrack.id}>{selTrack.id} (its track now)</option>}
                     {candidates.map((t) => <option key={t.id} value={t.id}>{t.id} ({lastSize(t) || `from ${t.firstVisit}`})</option>)}
                   </select>
                 </label>
                 <button
                   type="button"
-                  disabled={busy || !linkChoice}
+                  disabled={busy || !linkChoice || linkChoice === selTrack?.id}
                   onClick={() => { const t = candidates.find((c) => c.id === linkChoice); if (t) void edit(() => linkLesion(appDb(), patient.id, at, name(t))); }}
                   data-testid="link-lesion"
                 >
