@@ -1,4 +1,5 @@
 import { Caution } from './components/Caution';
+import { ReaderName } from './components/ReaderName';
 import { RouteLink } from './components/RouteLink';
 import { useRoute } from './navigation';
 import { PatientList } from './screens/PatientList';
@@ -15,7 +16,7 @@ export function App() {
           <RouteLink to={{ screen: 'patients' }}>Falciform</RouteLink>
         </h1>
         <span className="tagline">Liver lesions by Couinaud segment, visit after visit</span>
-        <span className="version">v{VERSION}</span>
+        <span className="version"><ReaderName /> v{VERSION}</span>
       </header>
       <main className="app-main">
         {route.screen === 'patients' && <PatientList />}

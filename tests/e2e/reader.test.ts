@@ -70,6 +70,29 @@ describe('reader round in the browser', () => {
     await page.screenshot({ path: 'test-results/diagram-tab.png', fullPage: true });
   });
 
+  it('signs each change in the edit trail with the reader name set once in the app; dates are typed as YYYY-MM-DD', async () => {
+    await page.goto(server.url);
+    await page.getByTestId('reader-change').click();
+    await page.getByTestId('reader-input').fill('R. Reader');
+    await page.getByTestId('reader-save').click();
+    expect(await page.getByTestId('reader-name').textContent()).toContain('Reader: R. Reader');
+    await page.goto(`${server.url}#/patient/DEMO-0001`);
+    await page.getByTestId('tab-course').click();
+    const date = page.getByTestId('treatment-date');
+    await date.waitFor({ timeout: 90_000 });
+    expect(await date.getAttribute('placeholder')).toBe('YYYY-MM-DD');
+    await date.fill('2026-05-18');
+    await page.getByTestId('treatment-label').fill('Ablation of a lesion in II');
+    await page.getByTestId('treatment-add').click();
+    await page.getByTestId('treatment-row').filter({ hasText: 'Ablation of a lesion in II' }).waitFor();
+    await page.getByTestId('tab-tracks').click();
+    const newest = page.getByTestId('trail-row').first();
+    await newest.waitFor();
+    expect(await newest.getAttribute('data-entity')).toBe('treatment');
+    expect(await newest.getByTestId('trail-by').textContent()).toBe('R. Reader');
+    await page.getByTestId('trail').screenshot({ path: 'test-results/trail-reader.png' });
+  });
+
   it('imports loose files into a stored patient picked from the list, and asks before making a new one', async () => {
     await page.goto(server.url);
     const visitsOf = async (id: string) => Number((await page.locator(`[data-patient="${id}"] td`).first().textContent()) ?? 'NaN');
