@@ -1,3 +1,4 @@
+import { SegmentMark } from './SegmentMark';
 import { Scatter, ScatterChart } from 'recharts';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
 import type { SegmentName } from '../../src/segments/segment-map';
@@ -14,7 +15,8 @@ const METRIC = {
 } as const;
 
 const burdenDot = (metric: Metric) => pointShape<BurdenPoint>((p, cx, cy) => (
-  <circle
+  <SegmentMark
+    segment={p.segment}
     cx={cx}
     cy={cy}
     r={4}

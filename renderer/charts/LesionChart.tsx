@@ -1,3 +1,4 @@
+import { SegmentMark } from './SegmentMark';
 import { LabelList, Scatter, ScatterChart } from 'recharts';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
 import { valueScale, type LesionPoint, type LesionSeries } from './chart-data';
@@ -9,7 +10,8 @@ const STATUS_WORDS: Record<string, string> = { present: 'present', gone: 'gone',
 
 /** A point of a lesion track: larger for a RECIST target. */
 const lesionDot = (series: LesionSeries) => pointShape<LesionPoint>((p, cx, cy) => (
-  <circle
+  <SegmentMark
+    segment={p.segment}
     cx={cx}
     cy={cy}
     r={series.target ? 5 : 3.5}
