@@ -12,6 +12,8 @@ export interface VisitResult {
   volumetry: VisitVolumetry;
   /** Reading and analysis warnings, each naming its file. */
   warnings: string[];
+  /** The scan's voxel spacing along the axial normal, mm. */
+  sliceThicknessMm?: number;
 }
 
 /** Everything the patient screens show: each visit's analysis and the follow-up across visits. */

@@ -1,10 +1,11 @@
+import { SegmentMark } from './SegmentMark';
 import { Scatter, ScatterChart } from 'recharts';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
 import type { SegmentName } from '../../src/segments/segment-map';
 import { valueScale, type BurdenPoint, type BurdenSeries } from './chart-data';
 import { CHART_MARGIN, ChartFrame, courseAxes, lineCasing, pointShape, pointTooltip, TipBox, type CourseTime } from './chart-parts';
 import { SegmentLegend } from './SegmentLegend';
-import { fmtMl, fmtMm } from '../format';
+import { fmtMl, fmtMm, oneDecimal } from '../format';
 
 type Metric = 'sumMm' | 'volumeMl';
 
@@ -14,7 +15,8 @@ const METRIC = {
 } as const;
 
 const burdenDot = (metric: Metric) => pointShape<BurdenPoint>((p, cx, cy) => (
-  <circle
+  <SegmentMark
+    segment={p.segment}
     cx={cx}
     cy={cy}
     r={4}
@@ -57,7 +59,7 @@ export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; tim
       title={m.title}
       note={metric === 'sumMm'
         ? 'Every segment that holds a lesion at any visit, at every visit (0 when it holds none).'
-        : missing ? 'No volume at visits measured by manual marks (a mark gives diameters only).' : 'Sum of lesion volumes in each segment.'}
+        : `Tumour lying in each segment: each lesion's volume shared by its segment fractions, the figure the Remnant tab uses.${missing ? ' No volume at visits measured by manual marks (a mark gives diameters only).' : ''}`}
       legend={<SegmentLegend entries={props.series.map((s) => ({ segment: s.segment }))} />}
       values={
         <table className="data-table compact fit" data-testid={`values-${m.id}`}>
@@ -65,7 +67,7 @@ export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; tim
           <tbody>
             {props.series.flatMap((s) => s.points.map((p) => (
               <tr key={`${s.segment}-${p.visit}`} data-testid="burden-value" data-segment={p.segment ?? 'outside'} data-visit={p.visit} data-value={p[metric] ?? ''}>
-                <th scope="row">{p.segment ?? 'outside'}</th><td>{p.visit}</td><td>{p.date}</td><td className="num">{p.count}</td><td className="num">{p[metric] ?? '—'}</td>
+                <th scope="row">{p.segment ?? 'outside'}</th><td>{p.visit}</td><td>{p.date}</td><td className="num">{p.count}</td><td className="num">{oneDecimal(p[metric])}</td>
               </tr>
             )))}
           </tbody>
@@ -89,7 +91,7 @@ export function BurdenChart(props: { metric: Metric; series: BurdenSeries[]; tim
         {pointTooltip<BurdenPoint>((p) => (
           <TipBox
             title={`Segment ${p.segment ?? 'outside'} · ${p.date} (${p.visit})`}
-            lines={[['Lesions', String(p.count)], ['Sum of diameters', fmtMm(p.sumMm)], ['Volume', fmtMl(p.volumeMl)]]}
+            lines={[['Lesions centred here', String(p.count)], ['Sum of diameters', fmtMm(p.sumMm, 1)], ['Tumour volume', fmtMl(p.volumeMl, 1)]]}
           />
         ))}
       </ScatterChart>

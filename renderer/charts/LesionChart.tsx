@@ -1,15 +1,17 @@
+import { SegmentMark } from './SegmentMark';
 import { LabelList, Scatter, ScatterChart } from 'recharts';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
 import { valueScale, type LesionPoint, type LesionSeries } from './chart-data';
 import { CHART_MARGIN, ChartFrame, courseAxes, INK, lineCasing, pointShape, pointTooltip, TipBox, type CourseTime } from './chart-parts';
 import { SegmentLegend } from './SegmentLegend';
-import { fmtMm } from '../format';
+import { fmtMm, oneDecimal } from '../format';
 
 const STATUS_WORDS: Record<string, string> = { present: 'present', gone: 'gone', merged: 'merged into another lesion', 'not-evaluable': 'outside the scanned field' };
 
 /** A point of a lesion track: larger for a RECIST target. */
 const lesionDot = (series: LesionSeries) => pointShape<LesionPoint>((p, cx, cy) => (
-  <circle
+  <SegmentMark
+    segment={p.segment}
     cx={cx}
     cy={cy}
     r={series.target ? 5 : 3.5}
@@ -43,7 +45,7 @@ export function LesionChart(props: { series: LesionSeries[]; time: CourseTime })
           <tbody>
             {series.flatMap((s) => s.points.map((p) => (
               <tr key={`${p.track}-${p.visit}`} data-testid="lesion-value" data-track={p.track} data-visit={p.visit} data-mm={p.mm}>
-                <th scope="row">{p.track}{s.target ? ' (target)' : ''}</th><td>{p.visit}</td><td>{p.date}</td><td>{p.segment ?? 'outside'}</td><td className="num">{p.mm}</td><td>{STATUS_WORDS[p.status] ?? p.status}</td>
+                <th scope="row">{p.track}{s.target ? ' (target)' : ''}</th><td>{p.visit}</td><td>{p.date}</td><td>{p.segment ?? 'outside'}</td><td className="num">{oneDecimal(p.mm)}</td><td>{STATUS_WORDS[p.status] ?? p.status}</td>
               </tr>
             )))}
           </tbody>
@@ -72,7 +74,7 @@ export function LesionChart(props: { series: LesionSeries[]; time: CourseTime })
           );
         })}
         {pointTooltip<LesionPoint>((p) => (
-          <TipBox title={`${p.track} · ${p.date} (${p.visit})`} lines={[['Longest axial', fmtMm(p.mm)], ['Segment', p.segment ?? 'outside'], ['Status', STATUS_WORDS[p.status] ?? p.status]]} />
+          <TipBox title={`${p.track} · ${p.date} (${p.visit})`} lines={[['Longest axial', fmtMm(p.mm, 1)], ['Segment', p.segment ?? 'outside'], ['Status', STATUS_WORDS[p.status] ?? p.status]]} />
         ))}
       </ScatterChart>
     </ChartFrame>

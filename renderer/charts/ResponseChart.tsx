@@ -1,6 +1,6 @@
 import { LabelList, ReferenceDot, ReferenceLine, Scatter, ScatterChart } from 'recharts';
 import { PD_INCREASE, PD_MIN_INCREASE_MM, PR_DECREASE, round1 } from '../../src/followup/recist';
-import { fmtMm, fmtPct } from '../format';
+import { fmtMm, fmtPct, oneDecimal } from '../format';
 import { valueScale, type ResponseChartData, type ResponsePoint } from './chart-data';
 import { CHART_MARGIN, ChartFrame, courseAxes, INK, MUTED, pointShape, pointTooltip, TipBox, type CourseTime } from './chart-parts';
 
@@ -39,30 +39,31 @@ export function ResponseChart(props: { data: ResponseChartData; time: CourseTime
     <ChartFrame
       id="response"
       title={`Sum of target diameters, ${data.criteria}${data.criteria === 'mRECIST' ? ' (viable tumour)' : ''}`}
-      note={<>Response at each visit above its point; {targets}. Dashed: baseline sum. Ringed: nadir so far. Dotted: where the next visit would reach PR or PD. An open point lacks a target that could not be evaluated.</>}
+      note={<>Response at each visit above its point; {targets}. Dashed: baseline sum ({oneDecimal(data.baselineMm)} mm). Ringed: nadir so far. Dotted: where the next visit would reach PR (−30% from baseline: {oneDecimal(prLine)} mm) or PD (+20% and ≥ 5 mm over the nadir: {oneDecimal(pdLine)} mm). An open point lacks a target that could not be evaluated.</>}
       values={
         <table className="data-table compact fit" data-testid="values-response">
           <thead><tr><th scope="col">Visit</th><th scope="col">Date</th><th scope="col">Sum (mm)</th><th scope="col">vs baseline</th><th scope="col">vs nadir</th><th scope="col">Nadir before (mm)</th><th scope="col">Response</th></tr></thead>
           <tbody>
             {data.points.map((p, k) => (
               <tr key={p.visit} data-testid="response-value" data-visit={p.visit} data-sum={p.sumMm} data-category={p.category ?? 'baseline'}>
-                <th scope="row">{p.visit}</th><td>{p.date}</td><td className="num">{p.sumMm}{p.complete ? '' : ' (incomplete)'}</td>
+                <th scope="row">{p.visit}</th><td>{p.date}</td><td className="num">{oneDecimal(p.sumMm)}{p.complete ? '' : ' (incomplete)'}</td>
                 <td className="num">{k === 0 ? 'baseline' : fmtPct(p.changeFromBaselinePct)}</td><td className="num">{k === 0 ? '—' : fmtPct(p.changeFromNadirPct)}</td>
-                <td className="num">{p.nadirSumMm}</td><td>{k === 0 ? 'baseline' : (p.category ?? '—')}</td>
+                <td className="num">{oneDecimal(p.nadirSumMm)}</td><td>{k === 0 ? 'baseline' : (p.category ?? '—')}</td>
               </tr>
             ))}
           </tbody>
         </table>
       }
     >
-      <ScatterChart responsive style={{ width: '100%', height: 280 }} margin={CHART_MARGIN}>
+      <ScatterChart responsive style={{ width: '100%', height: 280 }} margin={{ ...CHART_MARGIN, right: CHART_MARGIN.right + 56 }}>
         {courseAxes(props.time, { dataKey: 'sumMm', scale: y, label: 'Sum of diameters (mm)' })}
-        <ReferenceLine y={data.baselineMm} stroke={MUTED} strokeDasharray="6 4" label={{ value: `baseline ${data.baselineMm} mm`, position: 'insideBottomRight', fontSize: 10, fill: MUTED }} />
+        {/* Line names sit in the right margin, outside the plot, so they never meet a point's category or the nadir label. */}
+        <ReferenceLine y={data.baselineMm} stroke={MUTED} strokeDasharray="6 4" label={{ value: 'baseline', position: 'right', fontSize: 10, fill: MUTED }} />
         {data.points.length > 1 && data.baselineMm > 0 && (
-          <ReferenceLine y={prLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: `PR threshold, −30% from baseline: ${prLine} mm`, position: 'insideBottomLeft', fontSize: 10, fill: MUTED }} />
+          <ReferenceLine y={prLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: 'PR', position: 'right', fontSize: 10, fill: MUTED }} />
         )}
         {data.points.length > 1 && (
-          <ReferenceLine y={pdLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: `PD threshold, +20% and ≥ 5 mm over the nadir: ${pdLine} mm`, position: 'insideTopLeft', fontSize: 10, fill: MUTED }} />
+          <ReferenceLine y={pdLine} stroke="#9aa3a9" strokeDasharray="1 3" label={{ value: 'PD', position: 'right', fontSize: 10, fill: MUTED }} />
         )}
         {data.nadir && data.points.length > 1 && (
           <ReferenceDot x={data.nadir.t} y={data.nadir.sumMm} r={10} fill="none" stroke={INK} strokeWidth={1.2} className="nadir-marker" label={{ value: 'nadir', position: 'bottom', offset: 12, fontSize: 10, fill: INK }} />
@@ -76,9 +77,9 @@ export function ResponseChart(props: { data: ResponseChartData; time: CourseTime
             <TipBox
               title={`${p.date} (${p.visit})`}
               lines={[
-                ['Sum of diameters', `${fmtMm(p.sumMm)}${p.complete ? '' : ' (incomplete)'}`],
+                ['Sum of diameters', `${fmtMm(p.sumMm, 1)}${p.complete ? '' : ' (incomplete)'}`],
                 ['vs baseline', first ? 'baseline' : fmtPct(p.changeFromBaselinePct)],
-                ['vs nadir', first ? '—' : `${fmtPct(p.changeFromNadirPct)} (nadir ${fmtMm(p.nadirSumMm)})`],
+                ['vs nadir', first ? '—' : `${fmtPct(p.changeFromNadirPct)} (nadir ${fmtMm(p.nadirSumMm, 1)})`],
                 ['Response', first ? 'baseline' : (p.category ?? '—')],
               ]}
             />

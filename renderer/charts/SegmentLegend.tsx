@@ -1,4 +1,5 @@
 import type { SegmentName } from '../../src/segments/segment-map';
+import { SegmentMark } from './SegmentMark';
 import { needsOutline, OUTLINE_INK, segmentColour, segmentDash } from './segment-style';
 import { segmentRank } from './chart-data';
 
@@ -9,7 +10,7 @@ export function SegmentSwatch({ segment }: { segment: SegmentName | null }) {
     <svg className="swatch" width="30" height="12" viewBox="0 0 26 10" aria-hidden="true">
       {needsOutline(segment) && <line x1="1" y1="5" x2="25" y2="5" stroke={OUTLINE_INK} strokeWidth="4" />}
       <line x1="1" y1="5" x2="25" y2="5" stroke={colour} strokeWidth="2.4" strokeDasharray={segmentDash(segment)} />
-      <circle cx="13" cy="5" r="3.6" fill={colour} stroke={needsOutline(segment) ? OUTLINE_INK : '#fff'} strokeWidth="1" />
+      <SegmentMark segment={segment} cx={13} cy={5} r={3.6} fill={colour} stroke={needsOutline(segment) ? OUTLINE_INK : '#fff'} strokeWidth={1} />
     </svg>
   );
 }

@@ -1,3 +1,4 @@
+import { IsoDateInput } from '../components/IsoDateInput';
 import { useState, type FormEvent } from 'react';
 import type { TreatmentRecord } from '../../src/model/records';
 import { errorText } from '../error-text';
@@ -54,7 +55,7 @@ export function TreatmentEvents(props: { patientId: string; treatments: Treatmen
         </table>
       )}
       <form className="treatment-form" onSubmit={(e) => void add(e)} data-testid="treatment-form">
-        <label>Date<input type="date" required value={date} onChange={(e) => setDate(e.target.value)} data-testid="treatment-date" /></label>
+        <label>Date<IsoDateInput value={date} onChange={setDate} testId="treatment-date" /></label>
         <label>
           Kind
           <select value={kind} onChange={(e) => setKind(e.target.value as TreatmentRecord['kind'])} data-testid="treatment-kind">

@@ -11,9 +11,13 @@ export const OUTLINE_INK = '#3b4348';
 
 export { segmentColour };
 
-/** SVG stroke-dasharray for the segment's lines, where its colour alone does not tell it apart. */
+/**
+ * SVG stroke-dasharray for the segment's lines, where its colour alone does not tell it apart: IVb
+ * from IV's colour, and V and VII from II (orange, yellow and vermillion are close for some readers).
+ */
+const DASHES: Partial<Record<SegmentName, string>> = { IVb: '6 3', V: '8 3 2 3', VII: '2 3' };
 export function segmentDash(segment: SegmentName | null): string | undefined {
-  return segment === 'IVb' ? '6 3' : undefined;
+  return segment === null ? undefined : DASHES[segment];
 }
 
 /** Relative luminance (WCAG 2 definition) of a #rrggbb colour. */

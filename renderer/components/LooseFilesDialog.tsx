@@ -5,11 +5,14 @@ import { guessLooseFiles } from '../store/loose-files';
 import type { LooseVisitDetails } from '../store/import';
 import { dicomFilesOf, proposeDicom, type DicomProposal } from '../store/dicom-import';
 import { ConfirmDialog } from './ConfirmDialog';
+import { IsoDateInput, ISO_DATE } from './IsoDateInput';
+
+const NEW_PATIENT = '';
 
 interface Props {
   files: OpenedFile[];
-  /** Stored patients' ids, offered for the patient field. */
-  knownPatients?: string[];
+  /** Ids of the patients already stored, offered first so a typo cannot make a new patient silently. */
+  patients: readonly string[];
   onImport: (details: LooseVisitDetails) => void;
   onCancel: () => void;
 }
@@ -20,8 +23,11 @@ const ROLE_WORDS: Record<string, string> = {
 };
 
 /** Files without a manifest form one visit; only the user can say whose visit and when. */
-export function LooseFilesDialog({ files, knownPatients = [], onImport, onCancel }: Props) {
-  const [patientId, setPatientId] = useState('');
+export function LooseFilesDialog({ files, patients, onImport, onCancel }: Props) {
+  const [existing, setExisting] = useState(NEW_PATIENT);
+  const [typed, setTyped] = useState('');
+  const [create, setCreate] = useState(false);
+  const [problem, setProblem] = useState<string | null>(null);
   const [date, setDate] = useState('');
   const [visitId, setVisitId] = useState('');
   const hasDicom = useMemo(() => dicomFilesOf(files).length > 0, [files]);
@@ -35,14 +41,29 @@ export function LooseFilesDialog({ files, knownPatients = [], onImport, onCancel
         if (!live) return;
         setDicom({ proposal });
         setSeries(proposal.defaultId);
-        // The headers propose; the user confirms or changes.
-        setPatientId((p) => p || proposal.patientId || '');
+        // The headers propose; the user confirms or changes. A stored patient with the header's id is chosen.
+        const id = proposal.patientId;
+        if (id !== undefined && patients.includes(id)) setExisting((e) => e || id);
+        else if (id !== undefined) setTyped((t) => t || id);
         setDate((d) => d || proposal.studyDate || '');
       },
       (e: unknown) => live && setDicom({ problem: errorText(e) }),
     );
     return () => { live = false; };
-  }, [files, hasDicom]);
+  }, [files, hasDicom, patients]);
+  const newId = typed.trim();
+  // A typed id that names a stored patient is that patient; one that differs only in case or spacing is a likely typo.
+  const exact = patients.find((p) => p === newId);
+  const close = exact ? undefined : patients.find((p) => p.replace(/[\s_-]/g, '').toLowerCase() === newId.replace(/[\s_-]/g, '').toLowerCase());
+  const patientId = existing !== NEW_PATIENT ? existing : newId;
+  const confirm = () => {
+    if (!patientId) return setProblem('Choose a patient, or type the id of a new one.');
+    if (existing === NEW_PATIENT && !exact && !create) {
+      return setProblem(`No patient ${patientId} is stored. Tick "Create new patient" to make one, or choose an existing patient.`);
+    }
+    if (!ISO_DATE.test(date)) return setProblem('Give the imaging date as YYYY-MM-DD.');
+    onImport({ patientId, date, ...(visitId.trim() ? { visitId: visitId.trim() } : {}), ...(series ? { dicomSeries: series } : {}) });
+  };
   const guess = useMemo(() => {
     try {
       return { ok: true as const, ...guessLooseFiles(files) };
@@ -56,7 +77,7 @@ export function LooseFilesDialog({ files, knownPatients = [], onImport, onCancel
       confirmLabel="Import visit"
       testId="loose-dialog"
       onCancel={onCancel}
-      onConfirm={() => onImport({ patientId, date, ...(visitId.trim() ? { visitId: visitId.trim() } : {}), ...(series ? { dicomSeries: series } : {}) })}
+      onConfirm={confirm}
     >
       {guess.ok ? (
         <dl className="roles">
@@ -77,22 +98,42 @@ export function LooseFilesDialog({ files, knownPatients = [], onImport, onCancel
         <p className="problem" role="alert">{guess.message}</p>
       )}
       {hasDicom && <DicomSeriesChoice state={dicom} chosen={series} onChoose={setSeries} />}
-      <p className="hint">These files have no manifest.json. Give the patient and the imaging date; an existing patient gains this visit.</p>
+      <p className="hint">These files have no manifest.json. Choose the patient and give the imaging date; an existing patient gains this visit.</p>
       <div className="form-grid">
         <label>
-          Patient id
-          <input value={patientId} onChange={(e) => setPatientId(e.target.value)} data-testid="loose-patient" list="known-patients" required />
-          <datalist id="known-patients">{knownPatients.map((id) => <option key={id} value={id} />)}</datalist>
+          Patient
+          <select value={existing} onChange={(e) => { setExisting(e.target.value); setProblem(null); }} data-testid="loose-existing">
+            <option value={NEW_PATIENT}>New patient…</option>
+            {patients.map((p) => <option key={p} value={p}>{p}</option>)}
+          </select>
         </label>
+        {existing === NEW_PATIENT && (
+          <label>
+            New patient id
+            <input value={typed} onChange={(e) => { setTyped(e.target.value); setCreate(false); setProblem(null); }} data-testid="loose-patient" required />
+          </label>
+        )}
         <label>
           Imaging date
-          <input type="date" value={date} onChange={(e) => setDate(e.target.value)} data-testid="loose-date" required />
+          <IsoDateInput value={date} onChange={setDate} testId="loose-date" />
         </label>
         <label>
           Visit id (optional)
           <input value={visitId} onChange={(e) => setVisitId(e.target.value)} placeholder="the date" data-testid="loose-visit" />
         </label>
       </div>
+      {existing === NEW_PATIENT && newId && (exact ? (
+        <p className="hint" data-testid="loose-matches">{exact} is already stored: the visit is added to that patient.</p>
+      ) : (
+        <>
+          {close && <p className="notice problem" data-testid="loose-close">A stored patient is {close}: did you mean that one? Choose it above.</p>}
+          <label className="check">
+            <input type="checkbox" checked={create} onChange={(e) => { setCreate(e.target.checked); setProblem(null); }} data-testid="loose-create" />
+            Create new patient {newId}
+          </label>
+        </>
+      ))}
+      {problem && <p className="notice problem" role="alert" data-testid="loose-problem">{problem}</p>}
     </ConfirmDialog>
   );
 }

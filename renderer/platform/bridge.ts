@@ -24,6 +24,14 @@ export async function saveBytes(suggestedName: string, bytes: Uint8Array, mime: 
   return true;
 }
 
+/**
+ * Where a saved file went, for the message after it: the desktop's save dialog showed the place
+ * itself; the browser put it in its downloads folder without a word.
+ */
+export function savedWhere(name: string): string {
+  return desktopBridge() ? '' : ` Saved as ${name} in this browser's downloads folder (the browser's download setting decides which).`;
+}
+
 /** Files chosen in a browser file input, as the same shape the desktop bridge returns. */
 export async function filesFromInput(list: FileList): Promise<OpenedFile[]> {
   return Promise.all(

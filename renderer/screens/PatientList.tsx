@@ -314,7 +314,7 @@ export function PatientList() {
       {loose && (
         <LooseFilesDialog
           files={loose}
-          knownPatients={(rows ?? []).map((r) => r.patient.id)}
+          patients={(rows ?? []).map((r) => r.patient.id)}
           onCancel={() => setLoose(null)}
           onImport={(details) => {
             const files = loose;

@@ -3,6 +3,7 @@ import { isFalciformError } from '../../src/errors';
 import type { Vec3 } from '../../src/geometry/mat4';
 import type { WindowPreset } from '../../src/model/records';
 import { roundTo } from '../../src/rounding';
+import { PLANE_APPROXIMATION } from '../../src/segments/build';
 import { LANDMARK_NAMES, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks';
 import { usePatient } from '../analysis/PatientContext';
 import { AnalysisStatus } from '../components/AnalysisStatus';
@@ -259,7 +260,8 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   };
 
   const visitDate = result?.date ?? record?.date;
-  const lesionSource = record ? [record.volumes.includes('lesions') ? 'lesion mask' : null, record.inputs.includes('marks') ? 'manual marks' : null].filter(Boolean).join(' + ') : '';
+  // From what is stored now: a marks file whose last mark was deleted no longer adds "manual marks".
+  const lesionSource = record ? [record.volumes.includes('lesions') ? 'lesion mask' : null, marks.length > 0 ? 'manual marks' : null].filter(Boolean).join(' + ') : '';
   const canMark = prefs.plane === 'axial' && !!volumes;
 
   return (
@@ -275,7 +277,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
         <h2 data-testid="visit-title">Visit {visitId}{visitDate ? <span className="visit-date"> · {visitDate}</span> : null}</h2>
         {record && (
           <span className="visit-facts">
-            Segment map {landmarkMode === 'built' ? 'built from landmarks' : 'imported'} · lesions from {lesionSource || 'nothing'}
+            Segment map {landmarkMode === 'built' ? <>built from landmarks <span className="approx" data-testid="plane-approximation" title={PLANE_APPROXIMATION}>(flat-plane approximation)</span></> : 'imported'} · lesions from <span data-testid="lesion-source">{lesionSource || 'nothing'}</span>
           </span>
         )}
         {record?.dicom && (

@@ -24,7 +24,18 @@ export class FalciformDb extends Dexie {
   constructor(name = DB_NAME, options?: DexieOptions) {
     super(name, options);
     declareVersions(this, SCHEMA_VERSIONS);
+    // Every new trail entry, whichever store module writes it, carries the reader's name when one is set.
+    this.audit.hook('creating', (_key, entry) => {
+      if (entry.by === undefined && currentReader) entry.by = currentReader;
+    });
   }
+}
+
+let currentReader = '';
+
+/** The reader name new trail entries are signed with (the `readerName` setting, loaded at start). */
+export function setCurrentReader(name: string): void {
+  currentReader = name.trim();
 }
 
 /** Declares schema versions on a Dexie instance (the migration test declares only the older ones). */

@@ -1,6 +1,6 @@
 import type { SegmentName } from '../../src/segments/segment-map';
 import { oneDecimal } from '../format';
-import { legendSegments, SEGMENT_COLOURS } from './palette';
+import { IMAGE_SEGMENT_COLOURS, legendSegments } from './palette';
 import type { VisitVolumes } from './volume-messages';
 
 interface Props {
@@ -39,7 +39,7 @@ export function SegmentPanel({ volumes, segmentVolumes, liverVolumeMl, show, onS
         <tbody>
           {legendSegments(split).map((s) => (
             <tr key={s} data-testid="segment-volume" data-segment={s}>
-              <th scope="row"><span className={`swatch${s === 'IVb' ? ' striped' : ''}`} style={{ backgroundColor: SEGMENT_COLOURS[s] }} aria-hidden="true" />{s}</th>
+              <th scope="row"><span className={`swatch${s === 'IVb' ? ' striped' : ''}`} style={{ backgroundColor: IMAGE_SEGMENT_COLOURS[s] }} aria-hidden="true" />{s}</th>
               <td className="num">{oneDecimal(ml.get(s))}</td>
             </tr>
           ))}

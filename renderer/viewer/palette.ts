@@ -8,6 +8,11 @@ import type { SegmentName } from '../../src/segments/segment-map.js';
  * segment looks the same everywhere. IVb keeps IV's colour and is drawn striped, so a split map
  * still tells IVa from IVb on the image.
  */
+/**
+ * On the images segment I takes a light grey instead of the palette's black: a black wash only darkens
+ * the dark grey liver on a CT window and vanishes. The charts, diagram and board keep black (on white).
+ */
+export const IMAGE_SEGMENT_COLOURS: Readonly<Record<SegmentName, string>> = { ...SEGMENT_COLOURS, I: '#d9d9d9' };
 export { SEGMENT_COLOURS };
 
 /** Largest default-scheme code (IVb). */
@@ -20,7 +25,7 @@ export const STRIPED_CODE = SEGMENT_CODES.IVb;
 export const CODE_RGB: Uint8Array = (() => {
   const out = new Uint8Array((MAX_CODE + 1) * 3);
   for (const [name, code] of Object.entries(SEGMENT_CODES) as [SegmentName, number][]) {
-    const hex = SEGMENT_COLOURS[name];
+    const hex = IMAGE_SEGMENT_COLOURS[name];
     out.set([1, 3, 5].map((at) => parseInt(hex.slice(at, at + 2), 16)), code * 3);
   }
   return out;

@@ -30,7 +30,7 @@ async function analyse({ patientId }: AnalysisRequest, progress: Progress): Prom
   const followup = followupOfPatient({ manifest, manifestFile: patientId, visits }, overrides);
   return {
     manifest,
-    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings })),
+    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
     followup,
   };
 }

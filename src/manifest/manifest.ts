@@ -34,6 +34,11 @@ const visit = z
     /** Viable (enhancing) tumour mask for mRECIST, on any grid. */
     viable: relPath.optional(),
     note: z.string().max(2000).optional(),
+    /** What the case form records of the reading: imaging modality, contrast phase, reader, date read. */
+    modality: z.enum(['CT', 'MR']).optional(),
+    contrastPhase: z.string().min(1).max(64).optional(),
+    reader: z.string().min(1).max(120).optional(),
+    readDate: isoDate.optional(),
   })
   .superRefine((v, ctx) => {
     const hasMap = v.segments !== undefined;

@@ -161,8 +161,10 @@ export interface SettingRecord {
 }
 
 /** The settings the app knows, with their values before anyone changes them. */
-export const DEFAULT_SETTINGS: { marginMm: number; windowPresets: WindowPreset[]; demoOffered: boolean } = {
+export const DEFAULT_SETTINGS: { marginMm: number; windowPresets: WindowPreset[]; demoOffered: boolean; readerName: string } = {
   marginMm: 10,
+  // Who is reading on this computer: set once in the app, written on every trail entry and the case form.
+  readerName: '',
   // Set once the demo patients were offered on first start, so removing them is final.
   demoOffered: false,
   // Liver soft-tissue, bone and lung windows as commonly used in CT reading (common practice).
@@ -188,6 +190,8 @@ export interface AuditRecord {
   oldValue: JsonValue;
   newValue: JsonValue;
   action: AuditAction;
+  /** The reader name set in the app when the change was made; absent when none was set. */
+  by?: string;
 }
 
 /** Record shapes by table name, as stored. */

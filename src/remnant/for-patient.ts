@@ -28,7 +28,7 @@ export interface RemnantAlertLesion {
   segment: SegmentName | null;
   marginMm: number | null;
   nearestOtherSegment: SegmentName | null;
-  where: 'in remnant' | 'at transection';
+  where: 'in remnant' | 'crosses the cut' | 'at transection';
 }
 
 export interface PatientRemnant extends RemnantPlan {
@@ -85,6 +85,7 @@ export function remnantForPatient(
       where,
     };
   };
+  const crossing = new Set(plan.lesionsCrossingCut.map((c) => c.id));
   const removes = plan.removedSegments.length ? `removes ${plan.removedSegments.join(', ')}` : 'removes nothing';
   return {
     ...plan,
@@ -94,7 +95,7 @@ export function remnantForPatient(
     proposed,
     label: `${plan.resection?.name ?? 'Chosen segments'} (${removes})`,
     alertLesions: [
-      ...plan.alertLesionsInRemnant.map((id) => alert(id, 'in remnant')),
+      ...plan.alertLesionsInRemnant.map((id) => alert(id, crossing.has(id) ? 'crosses the cut' : 'in remnant')),
       ...plan.alertLesionsAtTransection.map((id) => alert(id, 'at transection')),
     ],
     lesionTracks: Object.fromEntries(trackOf),

@@ -15,7 +15,17 @@ export const REMNANT_MINIMUMS: readonly { context: LiverContext; minimumShare: n
   { context: 'after extensive chemotherapy', minimumShare: 0.3 },
   { context: 'cirrhosis', minimumShare: 0.4 },
 ];
-const MINIMUMS_SOURCE = 'Commonly quoted minimum remnant share; common practice, from memory. Local protocols decide.';
+const MINIMUMS_SOURCE =
+  'Commonly quoted minimum share of the future liver remnant, by the state of the liver; common practice, from memory ' +
+  '(no guideline document at hand). Local protocols decide.';
+
+/**
+ * What the plan is and is not, said wherever its figures are shown: removal of whole segments as the
+ * segment map labels them, by volume only.
+ */
+export const REMNANT_SCOPE =
+  'Whole segments of the segment map are taken away: this is a volume estimate, not a transection plan. ' +
+  'Liver function is not assessed.';
 
 /** What the planner needs of a lesion; `Lesion` records from the analysis carry these fields. */
 export interface PlannerLesion {
@@ -35,6 +45,7 @@ export interface BodySize {
 export interface RemnantCaution {
   context: LiverContext;
   minimumShare: number;
+  /** The compared share is at or above this minimum (shown as "above"/"below", never as a verdict). */
   met: boolean;
   source: string;
 }
@@ -55,10 +66,18 @@ export interface RemnantPlan {
   standardisedRemnantShare: number | null;
   /** The share held against the minimums: the standardised one when height and weight are known. */
   comparedShare: { kind: 'standardised' | 'measured'; value: number; description: string };
+  /**
+   * Set when the compared share is over 100%: the standardised remnant exceeds the liver volume the
+   * body size predicts, so the measured liver is larger than predicted. Says what to check.
+   */
+  overFull: string | null;
   cautionsNote: string;
   cautions: RemnantCaution[];
-  /** Lesions whose centroid segment, or any part, stays. */
+  /** Lesions lying wholly in segments that stay. */
   lesionsInRemnant: string[];
+  /** Lesions with parts both in removed segments and in segments that stay: the cut runs through them. */
+  lesionsCrossingCut: { id: string; keptShare: number }[];
+  /** Margin-alert lesions in the remnant or crossing the cut. */
   alertLesionsInRemnant: string[];
   /** Lesions taken out whole but with a margin alert towards a segment that stays: the cut runs close. */
   alertLesionsAtTransection: string[];
@@ -120,7 +139,8 @@ export function planRemnant(
     standardisedLiverMl: standard?.liverMl ?? null,
     standardisedRemnantShare: standard?.share ?? null,
     comparedShare,
-    cautionsNote: `Commonly quoted minimums; local protocols decide. Compared with the ${comparedShare.description}.`,
+    overFull: comparedShare.value > 1 ? overFullNote(comparedShare.value, remnantShare) : null,
+    cautionsNote: `Commonly quoted minimums; local protocols decide. Compared with the ${comparedShare.description}. ${REMNANT_SCOPE}`,
     cautions,
     ...lesionsLeft(lesions, chosen),
     estimated: volumetry.estimated,
@@ -163,6 +183,16 @@ function standardised(
   return { bsaM2, liverMl, share: remnantMl / liverMl };
 }
 
+/** Why a standardised remnant can exceed 100%, and what to read instead. */
+function overFullNote(compared: number, measuredShare: number): string {
+  return (
+    `The standardised remnant is ${(compared * 100).toFixed(1)}%, over 100%: the remnant alone is larger than the total liver ` +
+    'volume predicted from height and weight (Vauthey 2002). The formula predicts an average liver; this one is larger, or the ' +
+    'outline, voxel size, height or weight is wrong. Check them; the measured share of the tumour-free liver is ' +
+    `${(measuredShare * 100).toFixed(1)}%.`
+  );
+}
+
 // A measured liver this far from the one the body size predicts points more often to a wrong
 // outline, voxel size, height or weight than to the liver itself; a generous band, not a clinical limit.
 const PLAUSIBLE_LIVER_RATIO = { min: 0.5, max: 1.5 };
@@ -179,29 +209,36 @@ function checkAgainstBodySize(liverMl: number, standardisedMl: number, warnings:
 
 /**
  * Lesions that would stay, judged by name so it holds whichever way IV is labelled: removing IV
- * takes IVa and IVb, and removing both IVa and IVb takes IV.
+ * takes IVa and IVb, and removing both IVa and IVb takes IV. A lesion with parts on both sides of the
+ * cut is neither kept nor removed: it is named as crossing it, with the share that would stay.
  */
 function lesionsLeft(
   lesions: readonly PlannerLesion[],
   chosen: readonly SegmentName[],
-): Pick<RemnantPlan, 'lesionsInRemnant' | 'alertLesionsInRemnant' | 'alertLesionsAtTransection'> {
+): Pick<RemnantPlan, 'lesionsInRemnant' | 'lesionsCrossingCut' | 'alertLesionsInRemnant' | 'alertLesionsAtTransection'> {
   const gone = new Set<SegmentName>(chosen);
   if (gone.has('IV')) { gone.add('IVa'); gone.add('IVb'); }
   if (gone.has('IVa') && gone.has('IVb')) gone.add('IV');
   const stays = (s: SegmentName) => !gone.has(s);
 
   const lesionsInRemnant: string[] = [];
+  const lesionsCrossingCut: { id: string; keptShare: number }[] = [];
   const alertLesionsInRemnant: string[] = [];
   const alertLesionsAtTransection: string[] = [];
   for (const l of lesions) {
     if (l.segment === null) continue;
-    const partStays = Object.entries(l.segmentFractions ?? {}).some(([s, f]) => (f ?? 0) > 0 && stays(s as SegmentName));
-    if (stays(l.segment) || partStays) {
-      lesionsInRemnant.push(l.id);
+    const parts = Object.entries(l.segmentFractions ?? {}).filter(([, f]) => (f ?? 0) > 0) as [SegmentName, number][];
+    // A manual mark has no fractions: it lies wholly in its centroid's segment.
+    const shares: [SegmentName, number][] = parts.length ? parts : [[l.segment, 1]];
+    const kept = shares.filter(([s]) => stays(s)).reduce((a, [, f]) => a + f, 0);
+    const removedPart = shares.some(([s]) => !stays(s));
+    if (kept > 0 && removedPart) lesionsCrossingCut.push({ id: l.id, keptShare: kept });
+    else if (kept > 0) lesionsInRemnant.push(l.id);
+    if (kept > 0) {
       if (l.marginAlert) alertLesionsInRemnant.push(l.id);
     } else if (l.marginAlert && l.nearestOtherSegment && stays(l.nearestOtherSegment)) {
       alertLesionsAtTransection.push(l.id);
     }
   }
-  return { lesionsInRemnant, alertLesionsInRemnant, alertLesionsAtTransection };
+  return { lesionsInRemnant, lesionsCrossingCut, alertLesionsInRemnant, alertLesionsAtTransection };
 }

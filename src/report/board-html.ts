@@ -1,5 +1,7 @@
 import type { BoardRemnant, BoardSummary, BoardTrackCell, BoardVisitRow } from './board-summary.js';
 import { boardCss, type PageSize } from './board-style.js';
+import { COMPUTED_RESPONSE } from '../caution.js';
+import { REMNANT_SCOPE } from '../remnant/planner.js';
 import { esc } from './html-escape.js';
 import { segmentDiagramSvg } from './segment-diagram-svg.js';
 import { sizeChartSvg } from './size-chart-svg.js';
@@ -11,7 +13,9 @@ import { sizeChartSvg } from './size-chart-svg.js';
  * Every value from the data goes through `esc`.
  */
 
-const mm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : x.toFixed(1));
+/** Lengths and volumes with one decimal, as the app's screens show them, so a figure reads the same on both. */
+const oneDecimal = (x: number) => x.toFixed(1);
+const mm = (x: number | null | undefined) => (x === null || x === undefined ? '—' : oneDecimal(x));
 const pct = (x: number | null) => (x === null ? '—' : `${x > 0 ? '+' : ''}${x.toFixed(1)}%`);
 const share = (x: number) => `${(x * 100).toFixed(0)}%`;
 const ids = (xs: readonly string[]) => (xs.length ? xs.map(esc).join(', ') : '—');
@@ -28,7 +32,7 @@ export function boardSheetHtml(s: BoardSummary): string {
     `<section class="b-col-chart"><h2>Size per lesion track <span class="b-h2-note">longest axial diameter, coloured by segment</span></h2>${sizeChartSvg(s.chart)}</section>`,
   );
   h.push(
-    `<section class="b-col-diagram"><h2>Segments at ${esc(s.diagram.visit)} <span class="b-h2-note">${esc(s.diagram.date)}, seen from the front</span></h2>` +
+    `<section class="b-col-diagram"><h2>Segments at ${esc(s.diagram.visit)} <span class="b-h2-note">${esc(s.diagram.date)}, seen from the front${s.diagram.fromLandmarks ? '; map from landmarks, flat-plane approximation' : ''}</span></h2>` +
       `${segmentDiagramSvg(s.diagram)}</section>`,
   );
   h.push(`</div>`);
@@ -79,7 +83,7 @@ function headline(s: BoardSummary): string {
   const other = v.otherResponses.length ? ` · ${v.otherResponses.map(esc).join(' · ')}` : '';
   return (
     `<div class="b-headline"><span>Response at ${esc(v.id)} (${esc(v.date)}), ${esc(s.criteria)}</span>` +
-    `<span class="b-category" data-testid="board-response">${esc(v.response)}</span>` +
+    `<span class="b-category" data-testid="board-response">${esc(v.response)}</span><span class="b-computed" data-testid="board-computed" title="${esc(COMPUTED_RESPONSE)}">computed, not read</span>` +
     `<span class="b-sub">${esc(sums)}${other}${v.newTracks.length ? ` · new: ${ids(v.newTracks)}` : ''}</span></div>`
   );
 }
@@ -87,12 +91,13 @@ function headline(s: BoardSummary): string {
 function visitsTable(s: BoardSummary): string {
   const row = (v: BoardVisitRow) =>
     `<tr><th scope="row">${esc(v.id)}</th><td class="nw">${esc(v.date)}</td><td class="num">${v.daysFromBaseline}</td>` +
-    `<td class="nw">${v.segmentMap === 'imported' ? 'imported' : 'from landmarks'}</td><td class="num">${v.lesionCount} <span class="b-muted">${esc(v.lesionSource)}</span></td>` +
+    `<td class="nw">${v.segmentMap === 'imported' ? 'imported' : 'from landmarks†'}</td><td class="num">${v.lesionCount} <span class="b-muted">${esc(v.lesionSource)}</span></td>` +
     `<td class="num">${mm(v.targetSumMm)}${v.targetSumComplete ? '' : '*'}</td><td class="num">${esc(pct(v.changeFromBaselinePct))}</td><td class="num">${esc(pct(v.changeFromNadirPct))}</td>` +
     `<td><span class="b-cat">${esc(v.response)}</span>${v.otherResponses.length ? ` <span class="b-muted">(${v.otherResponses.map(esc).join('; ')})</span>` : ''}</td>` +
     `<td>${ids(v.newTracks)}</td><td>${ids(v.goneTracks)}</td><td${v.alertTracks.length ? ' class="b-alert"' : ''}>${ids(v.alertTracks)}</td></tr>`;
   return (
-    `<section><h2>Visits and response <span class="b-h2-note">${esc(s.criteria)}; sums of target longest axial diameters</span></h2>` +
+    `<section><h2>Visits and response <span class="b-h2-note">${esc(s.criteria)}, computed from the sums of target longest axial diameters; a qualified reader confirms` +
+    `${s.visits.some((v) => v.segmentMap !== 'imported') ? '; † map from landmarks: flat-plane approximation' : ''}</span></h2>` +
     `<table><thead><tr><th scope="col">Visit</th><th scope="col">Date</th><th scope="col" class="num">Day</th><th scope="col">Segment map</th><th scope="col" class="num">Lesions</th>` +
     `<th scope="col" class="num">Target sum mm</th><th scope="col" class="num">vs baseline</th><th scope="col" class="num">vs nadir</th><th scope="col">Response</th>` +
     `<th scope="col">New</th><th scope="col">Gone</th><th scope="col">Margin alerts</th></tr></thead><tbody>` +
@@ -161,15 +166,18 @@ function alertDistance(marginMm: number | null, other: string | null): string {
 
 function remnantBlock(r: BoardRemnant | null): string {
   if (!r) return `<section class="b-col-half"><h2>Remnant</h2><p class="b-muted">No resection proposed for this page.</p></section>`;
-  const minimums = r.minimums.map((m) => `${share(m.minimumShare)} ${esc(m.context)}: ${m.met ? 'met' : 'NOT met'}`).join('; ');
+  const minimums = r.minimums.map((m) => `${share(m.minimumShare)} ${esc(m.context)} (${m.met ? 'above' : 'below'})`).join(', ');
+  const crossing = r.lesionsCrossingCut.map((c) => `${esc(c.label)} (${share(c.keptShare)} stays)`).join(', ');
   return (
-    `<section class="b-col-half"><h2>Remnant <span class="b-h2-note">${esc(r.visit)} ${esc(r.date)}${r.estimated ? ', tumour volumes estimated from diameters' : ''}</span></h2>` +
+    `<section class="b-col-half" data-testid="board-remnant"><h2>Remnant <span class="b-h2-note">${esc(r.visit)} ${esc(r.date)}${r.estimated ? ', tumour volumes estimated from diameters' : ''}</span></h2>` +
     `<ul class="b-list"><li><b>${esc(r.resection)}</b>: removes ${ids(r.removedSegments)}; remnant ${ids(r.remnantSegments)}</li>` +
-    `<li>Remnant ${esc(r.remnantMl.toFixed(0))} mL of ${esc(r.tumourFreeLiverMl.toFixed(0))} mL tumour-free liver (${share(r.remnantShare)}); ` +
-    `${r.compared.kind === 'standardised' ? 'standardised remnant' : 'measured share'} ${share(r.compared.value)}</li>` +
-    `<li>Minimum share ${minimums}</li>` +
-    `<li>Lesions left in the remnant: ${ids(r.lesionsInRemnant)}${r.alertLesionsAtTransection.length ? `; close to the cut: ${ids(r.alertLesionsAtTransection)}` : ''}</li>` +
-    `<li class="b-muted">Commonly quoted minimums; local protocols decide.</li></ul></section>`
+    `<li>Remnant ${esc(oneDecimal(r.remnantMl))} mL of ${esc(oneDecimal(r.tumourFreeLiverMl))} mL tumour-free liver (${share(r.remnantShare)}); ` +
+    `${r.compared.kind === 'standardised' ? 'standardised remnant' : 'measured share'} ${share(r.compared.value)}${r.overFull ? ' (over 100%: see below)' : ''}</li>` +
+    `<li>Commonly quoted minimums (common practice, from memory): ${minimums}</li>` +
+    `<li>Lesions wholly in the remnant: ${ids(r.lesionsInRemnant)}${crossing ? `; crossing the cut: ${crossing}` : ''}` +
+    `${r.alertLesionsAtTransection.length ? `; close to the cut: ${ids(r.alertLesionsAtTransection)}` : ''}</li>` +
+    (r.overFull ? `<li>${esc(r.overFull)}</li>` : '') +
+    `<li class="b-muted">${esc(REMNANT_SCOPE)}</li></ul></section>`
   );
 }
 

@@ -60,6 +60,7 @@ const BOARD_CSS = `
 .board-sheet .b-headline { display: flex; flex-wrap: wrap; align-items: baseline; gap: 1mm 3mm; margin-bottom: 1.5mm; }
 .board-sheet .b-category { font-size: 12pt; font-weight: bold; border: 0.4mm solid var(--b-ink); border-radius: 1mm; padding: 0 1.6mm; }
 .board-sheet .b-headline .b-sub { color: var(--b-muted); }
+.board-sheet .b-computed { color: var(--b-muted); border-bottom: 0.2mm dotted var(--b-muted); }
 .board-sheet h2 { font-size: 8.4pt; margin: 0 0 0.6mm; border-bottom: 0.2mm solid var(--b-line); padding-bottom: 0.3mm; }
 .board-sheet h2 .b-h2-note { font-weight: normal; color: var(--b-muted); }
 .board-sheet section { break-inside: avoid; margin-bottom: 1.8mm; }

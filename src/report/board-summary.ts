@@ -25,6 +25,8 @@ export const MAX_WARNING_LINES = 2;
 
 export interface BoardOptions {
   madeAt: Date;
+  /** The reader's zone as minutes east of UTC; default the computer's own zone at `madeAt`. */
+  utcOffsetMinutes?: number;
   pseudonym?: Pseudonym | null;
 }
 
@@ -106,6 +108,8 @@ export interface SegmentDiagram {
   segments: SegmentName[];
   /** Placed as the app's Diagram tab places them, so the page and the screen agree. */
   lesions: PlacedLesion[];
+  /** The visit's map was built from landmarks by the plane rule (a flat-plane approximation). */
+  fromLandmarks: boolean;
 }
 
 export interface BoardRemnant {
@@ -119,7 +123,11 @@ export interface BoardRemnant {
   remnantShare: number;
   compared: { kind: 'standardised' | 'measured'; value: number };
   minimums: { context: string; minimumShare: number; met: boolean }[];
+  /** Why the compared share is over 100%, when it is. */
+  overFull: string | null;
   lesionsInRemnant: string[];
+  /** Lesions the cut runs through, by track, with the share that would stay. */
+  lesionsCrossingCut: { label: string; keptShare: number }[];
   alertLesionsAtTransection: string[];
   estimated: boolean;
 }
@@ -161,9 +169,15 @@ function keepEnds<T>(xs: readonly T[], max: number): { kept: T[]; left: T[] } {
   return { kept: [xs[0], ...xs.slice(xs.length - (max - 1))], left: xs.slice(1, xs.length - (max - 1)) };
 }
 
-/** "2026-06-29 14:05 UTC": the moment the page was made, in one unambiguous zone. */
-function madeAtText(d: Date): string {
-  return `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+/**
+ * "2026-06-29 16:05 +02:00": the moment the page was made in the reader's local time, with its offset
+ * from UTC (ISO 8601) so it stays unambiguous on a page read elsewhere.
+ */
+export function madeAtText(d: Date, offsetMinutes = -d.getTimezoneOffset()): string {
+  const local = new Date(d.getTime() + offsetMinutes * 60_000).toISOString().slice(0, 16).replace('T', ' ');
+  const a = Math.abs(offsetMinutes);
+  const zone = `${offsetMinutes < 0 ? '-' : '+'}${String(Math.floor(a / 60)).padStart(2, '0')}:${String(a % 60).padStart(2, '0')}`;
+  return `${local} ${zone}`;
 }
 
 export function buildBoardSummary(input: ReportInput, opts: BoardOptions): BoardSummary {
@@ -280,6 +294,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
     date: latestVisit.date,
     segments: (byId.get(latestVisit.id)?.analysis.segments ?? []).map((s) => s.segment),
     lesions: placeLesions(f, input.visits.map((v) => ({ id: v.id, lesions: v.analysis.lesions })), latestVisit.id),
+    fromLandmarks: manifestVisit.get(latestVisit.id)?.segments === undefined,
   };
 
   const warnings = [
@@ -319,7 +334,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
     warnings: warnings.slice(0, MAX_WARNING_LINES),
     warningsLeftOut: Math.max(0, warnings.length - MAX_WARNING_LINES),
     caution: CAUTION,
-    madeAt: madeAtText(opts.madeAt),
+    madeAt: madeAtText(opts.madeAt, opts.utcOffsetMinutes),
     version: VERSION,
   };
 }
@@ -338,7 +353,9 @@ function boardRemnant(r: PatientRemnant): BoardRemnant {
     remnantShare: r.remnantShare,
     compared: { kind: r.comparedShare.kind, value: r.comparedShare.value },
     minimums: r.cautions.map((c) => ({ context: c.context, minimumShare: c.minimumShare, met: c.met })),
+    overFull: r.overFull,
     lesionsInRemnant: label(r.lesionsInRemnant),
+    lesionsCrossingCut: r.lesionsCrossingCut.map((c) => ({ label: r.lesionTracks[c.id] ?? c.id, keptShare: c.keptShare })),
     alertLesionsAtTransection: label(r.alertLesionsAtTransection),
     estimated: r.estimated,
   };

@@ -18,7 +18,16 @@ export const CASE_FORM_COLUMNS = [
   'segment_fractions', 'longest_axial_mm', 'short_axis_mm', 'volume_ml', 'margin_mm', 'nearest_other_segment',
   'margin_alert', 'set_margin_mm', 'target', 'new_lesion', 'response', 'criteria', 'target_sum_mm',
   'change_from_baseline_pct', 'change_from_nadir_pct', 'software', 'caution',
+  'row_type', 'evaluation', 'response_basis', 'modality', 'contrast_phase', 'slice_thickness_mm', 'reader', 'reading_date',
 ] as const;
+
+/** On every row beside `response`: the category is worked out from the measurements, not read. */
+export const RESPONSE_BASIS = 'computed';
+
+export interface CaseFormOptions {
+  /** The reader's name for visits whose manifest names none (the app's reader name). */
+  reader?: string;
+}
 
 export type CaseFormColumn = (typeof CASE_FORM_COLUMNS)[number];
 export type CaseFormRow = Record<CaseFormColumn, string>;
@@ -37,8 +46,18 @@ export function fractionsText(fractions: LesionResult['segmentFractions']): stri
   return SEGMENT_NAMES.filter((s) => (f[s] ?? 0) > 0).map((s) => `${s}:${decimal(f[s], 4)}`).join(';');
 }
 
-/** `patientLabel` is the id to write: the real one, or a pseudonym. */
-export function caseFormRows(input: ReportInput, patientLabel: string): CaseFormRow[] {
+/** Every lesion column empty, for a visit's summary row. */
+const NO_LESION = {
+  track: '', lesion: '', status: '', source: '', segment: '', segment_fractions: '', longest_axial_mm: '', short_axis_mm: '',
+  volume_ml: '', margin_mm: '', nearest_other_segment: '', target: '',
+} as const;
+
+/**
+ * `patientLabel` is the id to write: the real one, or a pseudonym. Each visit starts with its summary
+ * row (`row_type` visit), then its lesion rows.
+ */
+export function caseFormRows(input: ReportInput, patientLabel: string, opts: CaseFormOptions = {}): CaseFormRow[] {
+  const manifestVisit = new Map(input.manifest.visits.map((v) => [v.id, v]));
   const f: FollowupResult = input.followup;
   const baseline = f.visits[0];
   const rows: CaseFormRow[] = [];
@@ -61,7 +80,18 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
       change_from_nadir_pct: k === 0 ? '' : decimal(r.changeFromNadirPct, 1),
       software: `Falciform ${VERSION}`,
       caution: CAUTION,
+      response_basis: k === 0 ? '' : RESPONSE_BASIS,
+      ...readingFields(manifestVisit.get(v.id), byVisit.get(v.id)?.sliceThicknessMm, opts),
     };
+    rows.push({
+      ...visitFields,
+      ...NO_LESION,
+      row_type: 'visit',
+      // NE when a target could not be evaluated at this visit: its sum covers the others only.
+      evaluation: r.targetSumComplete ? 'measured' : 'NE',
+      margin_alert: yesNo(v.marginAlerts.length > 0),
+      new_lesion: yesNo(k > 0 && v.newLesions.length > 0),
+    });
     for (const l of lesions) {
       const t = trackOf.get(l.id);
       rows.push({
@@ -81,6 +111,8 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
         margin_alert: yesNo(l.marginMm !== null && l.marginMm < f.marginMm),
         target: yesNo(t?.target ?? false),
         new_lesion: yesNo(t !== undefined && k > 0 && t.firstVisit === v.id),
+        row_type: 'lesion',
+        evaluation: 'measured',
       });
     }
     for (const t of f.tracks) {
@@ -102,10 +134,28 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
         margin_alert: 'no',
         target: yesNo(t.target),
         new_lesion: 'no',
+        row_type: 'lesion',
+        // RECIST 1.1 records a vanished lesion as 0 mm and one that cannot be assessed as NE.
+        evaluation: status === 'not-evaluable' ? 'NE' : 'absent',
       });
     }
   });
   return rows;
+}
+
+/** The reading's own columns: from the manifest's visit, else the app's reader name; thickness from the scan. */
+function readingFields(
+  mv: ReportInput['manifest']['visits'][number] | undefined,
+  sliceThicknessMm: number | undefined,
+  opts: CaseFormOptions,
+): Pick<CaseFormRow, 'modality' | 'contrast_phase' | 'slice_thickness_mm' | 'reader' | 'reading_date'> {
+  return {
+    modality: mv?.modality ?? '',
+    contrast_phase: mv?.contrastPhase ?? '',
+    slice_thickness_mm: decimal(sliceThicknessMm, 2),
+    reader: mv?.reader ?? opts.reader ?? '',
+    reading_date: mv?.readDate ?? '',
+  };
 }
 
 export function caseFormCsv(rows: readonly CaseFormRow[]): string {

@@ -97,26 +97,33 @@ function segmentShapes(segments: readonly SegmentName[]): SvgShape[] {
   return out;
 }
 
+const KEY_LABEL = 46;
+const KEY_GAP = 26;
+
 /** Size and symbol key in the lower corner, so a saved or printed copy keeps it. */
 function keyShapes(): SvgShape[] {
   const baseline = VIEW_HEIGHT - 10;
   const out: SvgShape[] = [
-    { tag: 'text', attrs: { x: 20, y: baseline - 52, class: 'diagram-note', ...NOTE }, text: 'Dots to scale: diameter = longest axial diameter' },
+    {
+      tag: 'text', attrs: { x: 20, y: baseline - 52, class: 'diagram-note', 'data-key': 'scale', ...NOTE },
+      text: 'Positions schematic; dot diameter to scale = longest axial diameter',
+    },
   ];
   let x = 20;
   for (const mm of [10, 20, 40]) {
     const r = dotRadius(mm);
     out.push(
       { tag: 'circle', attrs: { cx: x + r, cy: baseline - r, r, fill: PAPER, stroke: INK, 'stroke-width': 1.2 } },
-      { tag: 'text', attrs: { x: x + 2 * r + 4, y: baseline - 2, class: 'diagram-note', ...NOTE }, text: `${mm} mm` },
+      { tag: 'text', attrs: { x: x + 2 * r + 5, y: baseline - 2, class: 'diagram-note', ...NOTE }, text: `${mm} mm` },
     );
-    x += 2 * r + 58;
+    // Room for the label (about 45 units) and a clear gap before the next dot.
+    x += 2 * r + 5 + KEY_LABEL + KEY_GAP;
   }
   out.push(
     { tag: 'circle', attrs: { cx: x + 7, cy: baseline - 7, r: 7, fill: INK, stroke: INK, 'stroke-width': 1.2 } },
     { tag: 'text', attrs: { x: x + 18, y: baseline - 2, class: 'diagram-note', ...NOTE }, text: 'target' },
   );
-  x += 76;
+  x += 18 + KEY_LABEL + KEY_GAP;
   out.push(
     { tag: 'circle', attrs: { cx: x + 10, cy: baseline - 10, r: 5, fill: PAPER, stroke: INK, 'stroke-width': 1.2 } },
     { tag: 'circle', attrs: { cx: x + 10, cy: baseline - 10, r: 10, fill: 'none', stroke: ALERT_INK, 'stroke-width': 2, 'stroke-dasharray': '4 3' } },
@@ -125,9 +132,16 @@ function keyShapes(): SvgShape[] {
   return out;
 }
 
+/** "V 62% / VIII 38%": a crossing lesion's shares, whole percent (under 1% as "<1%"). */
+export function sharesText(l: Pick<PlacedLesion, 'shares'>): string {
+  return l.shares.map((x) => `${x.segment} ${x.share < 0.005 ? '<1' : (x.share * 100).toFixed(0)}%`).join(' / ');
+}
+
 function lesionTitle(l: PlacedLesion): string {
   return (
-    `${l.track ?? 'no track'} (lesion ${l.lesion}), segment ${l.segment ?? 'outside'}, longest axial ${l.longestAxialMm.toFixed(1)} mm` +
+    `${l.track ?? 'no track'} (lesion ${l.lesion}), segment ${l.segment ?? 'outside'}` +
+    (l.crossing ? `, crossing the border: ${sharesText(l)}` : '') +
+    `, longest axial ${l.longestAxialMm.toFixed(1)} mm` +
     (l.target ? ', target' : '') +
     (l.marginMm === null ? '' : `, ${l.marginMm.toFixed(1)} mm from ${l.nearestOtherSegment ?? 'another segment'}`) +
     (l.alert ? ' — margin alert' : '') +
@@ -145,6 +159,7 @@ function lesionMark(l: PlacedLesion): LesionMark {
     title: lesionTitle(l),
     attrs: {
       'data-lesion': l.lesion, 'data-track': l.track ?? '', 'data-segment': l.segment ?? 'outside',
+      'data-crossing': l.crossing ? l.crossing.join('|') : '',
       'data-mm': l.longestAxialMm, 'data-alert': String(l.alert), 'data-target': String(l.target),
     },
     shapes,
@@ -154,7 +169,7 @@ function lesionMark(l: PlacedLesion): LesionMark {
         x: round(x + l.r + 3), y: round(y - l.r + 3), class: 'diagram-lesion-name', 'font-size': 15, 'font-weight': 700, fill: INK,
         stroke: PAPER, 'stroke-width': 3.5, 'stroke-linejoin': 'round', 'paint-order': 'stroke',
       },
-      text: (l.track ?? l.lesion) + (l.isNew ? ' new' : ''),
+      text: (l.track ?? l.lesion) + (l.isNew ? ' new' : '') + (l.crossing ? ` ${sharesText(l)}` : ''),
     },
   };
 }

@@ -206,3 +206,44 @@ export function portalCuts(splitIV: boolean): Line[] {
   const spans: Line[] = splitIV ? [[left, right]] : [[left, atMHV], [atUF, right]];
   return spans.flatMap(([a, b]) => insideOutline(a, b));
 }
+
+/**
+ * The drawn border between two segments as the two ends of its shared edge, or null when the two do
+ * not touch on the drawing (or touch at a corner only). Regions are cut from one outline by the same
+ * lines, so a shared edge's ends are vertices of one polygon lying on the other's edge. Segment I, an island, borders every
+ * segment around it: the border is the oval's edge facing the other segment's lesions.
+ */
+export function borderBetween(a: SegmentName, b: SegmentName): Line | null {
+  if (a === b) return null;
+  if (a === 'I' || b === 'I') {
+    const other = regionOf(a === 'I' ? b : a).anchor;
+    const angle = Math.atan2(other[1] - CAUDATE.cy, other[0] - CAUDATE.cx);
+    const at = (da: number): Point => [CAUDATE.cx + CAUDATE.rx * Math.cos(angle + da), CAUDATE.cy + CAUDATE.ry * Math.sin(angle + da)];
+    return [at(-0.6), at(0.6)];
+  }
+  const pa = regionOf(a).polygon, pb = regionOf(b).polygon;
+  const shared = [...pa.filter((p) => onBoundary(p, pb)), ...pb.filter((p) => onBoundary(p, pa))];
+  if (shared.length < 2) return null;
+  let best: Line = [shared[0], shared[1]];
+  let far = -1;
+  for (const p of shared) {
+    for (const q of shared) {
+      const d = (p[0] - q[0]) ** 2 + (p[1] - q[1]) ** 2;
+      if (d > far) { far = d; best = [p, q]; }
+    }
+  }
+  // Regions meeting at a corner only (VII and V) have no border to draw a lesion on.
+  return far > 16 ? best : null;
+}
+
+/** Whether p lies on an edge of the polygon (within a thousandth of a drawing unit). */
+function onBoundary(p: Point, poly: readonly Point[]): boolean {
+  for (let i = 0, j = poly.length - 1; i < poly.length; j = i++) {
+    const a = poly[j], b = poly[i];
+    const dx = b[0] - a[0], dy = b[1] - a[1];
+    const len2 = dx * dx + dy * dy;
+    const t = len2 === 0 ? 0 : Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / len2));
+    if (Math.hypot(a[0] + t * dx - p[0], a[1] + t * dy - p[1]) < 1e-3) return true;
+  }
+  return false;
+}

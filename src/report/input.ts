@@ -13,6 +13,8 @@ export interface ReportVisit {
   date: string;
   analysis: VisitAnalysis;
   warnings: readonly string[];
+  /** The scan's voxel spacing along the axial normal, mm (the slice thickness the case form records). */
+  sliceThicknessMm?: number;
 }
 
 export interface ReportInput {

@@ -21,6 +21,14 @@ export interface BuildOptions {
 }
 
 /**
+ * Said wherever segments of a landmark-built map are shown: the real borders follow curved veins and
+ * fissures, the plane rule cuts with flat planes through a few vessel points.
+ */
+export const PLANE_APPROXIMATION =
+  'Segment map built from landmarks: an approximation by flat planes through vessel points; real segment ' +
+  'borders are curved, so check the segments on the images.';
+
+/**
  * Builds a segment map from a landmark set by the plane rule (brief, plane method) on the liver
  * mask's grid: uint8 labels with the default scheme's values (1–8; with splitIV 4 = IVa, 9 = IVb).
  * Liver voxels are those with value > 0. Segment I comes only from the caudate mask.

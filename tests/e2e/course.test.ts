@@ -67,7 +67,7 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
 
   const points = (chart: string, attrs: string[]) =>
     page.locator(`[data-chart="${chart}"]`).evaluateAll((els, names) => els.map((e) => {
-      const out: Record<string, string | number> = { cx: Number(e.getAttribute('cx')), cy: Number(e.getAttribute('cy')) };
+      const out: Record<string, string | number> = { cx: Number(e.getAttribute('data-cx') ?? e.getAttribute('cx')), cy: Number(e.getAttribute('data-cy') ?? e.getAttribute('cy')) };
       for (const n of names) out[n] = e.getAttribute(`data-${n}`) ?? '';
       return out;
     }), attrs);
@@ -202,10 +202,10 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     const lesion = cliFollowup('DEMO-0001').tracks.find((t) => t.id === 'T1')!.lesions.v2;
     expect(await cell('T1', 'v2').getAttribute('data-lesion')).toBe(lesion);
     const chip = page.locator(`[data-testid="lesion-chip"][data-visit="v2"][data-lesion="${lesion}"]`);
-    // The treatment event added and deleted on the course tab is in the trail, newest first.
+    // The treatment event added and deleted on the course tab is in the trail, newest first, its values labelled.
     expect((await trail()).slice(0, 2)).toEqual([
-      expect.stringMatching(/treatment removed.*2026-05-18 resection Resection, segment II/),
-      expect.stringMatching(/treatment added.*2026-05-18 resection Resection, segment II/),
+      expect.stringMatching(/treatment removed.*date 2026-05-18; kind resection; label Resection, segment II/),
+      expect.stringMatching(/treatment added.*date 2026-05-18; kind resection; label Resection, segment II/),
     ]);
 
     // Unlink T1's lesion at v2 from T1: it starts a track of its own, T1 is gone at v2.

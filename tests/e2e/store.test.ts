@@ -119,6 +119,8 @@ describe('local store in the browser', () => {
     expect(await dialog.locator('dd').allTextContents()).toEqual(['scan.nii.gz', 'segments.nii.gz', 'lesions.nii.gz']);
     await page.getByTestId('loose-patient').fill('LOOSE-0001');
     await page.getByTestId('loose-date').fill('2026-04-10');
+    // A new patient is made only when asked for.
+    await page.getByTestId('loose-create').check();
     await page.screenshot({ path: 'test-results/loose-files-dialog.png' });
     await page.getByTestId('dialog-confirm').click();
     await page.getByTestId('import-done').waitFor();

@@ -18,6 +18,16 @@ describe('burden per segment per visit', () => {
     ]);
   });
 
+  it('shares a crossing lesion\'s volume by its segment fractions, as the volumetry counts its voxels', () => {
+    // 4 mL lesion centred in V with 0.75 of its voxels in V and 0.25 in VIII: V holds 3 mL, VIII 1 mL;
+    // count and diameters stay with the centroid's segment.
+    const rows = burdenBySegment([{ id: 'v1', lesions: [{ segment: 'V', longestAxialMm: 20, volumeMl: 4, segmentFractions: { V: 0.75, VIII: 0.25 } }] }]);
+    expect(rows).toEqual([
+      { visit: 'v1', segment: 'V', count: 1, sumLongestAxialMm: 20, volumeMl: 3 },
+      { visit: 'v1', segment: 'VIII', count: 0, sumLongestAxialMm: 0, volumeMl: 1 },
+    ]);
+  });
+
   it('gives no volume where a manual mark (no voxels) contributes', () => {
     const rows = burdenBySegment([{ id: 'v1', lesions: [{ segment: 'V', longestAxialMm: 20, volumeMl: null }, { segment: 'V', longestAxialMm: 10, volumeMl: 2 }] }]);
     expect(rows).toEqual([{ visit: 'v1', segment: 'V', count: 2, sumLongestAxialMm: 30, volumeMl: null }]);

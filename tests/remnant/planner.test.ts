@@ -94,6 +94,17 @@ describe('remnant share arithmetic', () => {
     expect(() => planRemnant(visit(), 'right-hemihepatectomy', { heightCm: 170, weightKg: 7000 })).toThrow(FalciformError);
   });
 
+  it('a standardised remnant over 100% is explained, with the measured share to read instead', () => {
+    // Segmentectomy II: tumour-free remnant 1600 − 140 = 1460 mL; 160 cm, 50 kg: standardised liver 1094.74 mL
+    // (above), 1460 / 1094.74 = 133.4%; measured share 1460 / 1600 = 91.25%.
+    const p = planRemnant(visit(), 'segmentectomy-2', { heightCm: 160, weightKg: 50 });
+    expect(p.comparedShare.value).toBeCloseTo(1.33365, 4);
+    expect(p.overFull).toMatch(/^The standardised remnant is 133\.4%, over 100%: .* measured share of the tumour-free liver is 91\.3%\.$/);
+    expect(planRemnant(visit(), 'segmentectomy-2', { heightCm: 170, weightKg: 70 }).comparedShare.value).toBeLessThan(1);
+    expect(planRemnant(visit(), 'segmentectomy-2', { heightCm: 170, weightKg: 70 }).overFull).toBeNull();
+    expect(p.cautionsNote).toMatch(/not a transection plan\. Liver function is not assessed\.$/);
+  });
+
   it('a measured liver far from the one the body size predicts is pointed out', () => {
     // 1650 mL against 1509.66 mL (170 cm, 70 kg) is 109%: no warning. Against 1094.74 mL (160 cm, 50 kg) it is 151%.
     expect(planRemnant(visit(), 'segmentectomy-2', { heightCm: 170, weightKg: 70 }).warnings).toEqual([]);
@@ -112,9 +123,10 @@ describe('lesions that would stay in the remnant', () => {
     { id: 'F', segment: null, marginAlert: false },
   ];
 
-  it('right hemihepatectomy keeps B, C and part of D; E lies near the cut', () => {
+  it('right hemihepatectomy keeps B and C; the cut runs through D (0.4 of it in IV stays); E lies near the cut', () => {
     const p = planRemnant(visit(), 'right-hemihepatectomy', undefined, lesions);
-    expect(p.lesionsInRemnant).toEqual(['B', 'C', 'D']);
+    expect(p.lesionsInRemnant).toEqual(['B', 'C']);
+    expect(p.lesionsCrossingCut).toEqual([{ id: 'D', keptShare: 0.4 }]);
     expect(p.alertLesionsInRemnant).toEqual(['B', 'D']);
     expect(p.alertLesionsAtTransection).toEqual(['E']);
   });
@@ -122,8 +134,16 @@ describe('lesions that would stay in the remnant', () => {
   it('right trisectionectomy takes D and E whole', () => {
     const p = planRemnant(visit(), 'right-trisectionectomy', undefined, lesions);
     expect(p.lesionsInRemnant).toEqual(['B', 'C']);
+    expect(p.lesionsCrossingCut).toEqual([]);
     expect(p.alertLesionsInRemnant).toEqual(['B']);
     expect(p.alertLesionsAtTransection).toEqual([]);
+  });
+
+  it('a segmentectomy never says a lesion of the removed segment stays: A goes with VIII, D crosses the cut', () => {
+    const p = planRemnant(visit(), 'segmentectomy-8', undefined, lesions);
+    expect(p.lesionsInRemnant).toEqual(['B', 'C', 'E']);
+    expect(p.lesionsCrossingCut).toEqual([{ id: 'D', keptShare: 0.4 }]);
+    expect(p.alertLesionsAtTransection).toEqual(['A']);
   });
 
   it('IV and IVa/IVb name the same tissue', () => {

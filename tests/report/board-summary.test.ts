@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildBoardSummary, MAX_TABLE_VISITS, MAX_TRACK_ROWS, MAX_VISIT_ROWS } from '../../src/report/board-summary.js';
+import { buildBoardSummary, madeAtText, MAX_TABLE_VISITS, MAX_TRACK_ROWS, MAX_VISIT_ROWS } from '../../src/report/board-summary.js';
 import { placeLesions } from '../../src/report/diagram-placement.js';
 import { segmentDiagramSvg } from '../../src/report/segment-diagram-svg.js';
 import { sizeChartSvg } from '../../src/report/size-chart-svg.js';
@@ -17,7 +17,11 @@ describe('board summary model', () => {
     expect(s.latest.response).toBe(f.visits[3].overall);
     expect(s.visits.map((v) => v.response)).toEqual(['baseline', ...f.visits.slice(1).map((v) => v.overall)]);
     expect(s.targets).toEqual(f.targets);
-    expect(s.madeAt).toBe('2026-06-30 08:05 UTC');
+    expect(s.madeAt).toBe(madeAtText(madeAt));
+    // Local time with its offset from UTC, written as ISO 8601 writes a zone designator.
+    expect(madeAtText(madeAt, 0)).toBe('2026-06-30 08:05 +00:00');
+    expect(madeAtText(madeAt, 120)).toBe('2026-06-30 10:05 +02:00');
+    expect(madeAtText(madeAt, -570)).toBe('2026-06-29 22:35 -09:30');
     expect(s.patient.facts.map((x) => x.label)).toEqual(['Born', 'Sex', 'Height', 'Weight']);
     expect(s.lesionTable.rows.filter((r) => r.target).map((r) => r.id)).toEqual(f.targets.tracks.slice().sort());
   });

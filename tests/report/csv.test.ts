@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { CASE_FORM_COLUMNS, caseFormCsv, caseFormRows, decimal, fractionsText } from '../../src/report/case-form.js';
@@ -58,8 +59,9 @@ describe('case-form export', () => {
   it('has one row per lesion per visit, and one per absent track', () => {
     const lesions = input.visits.reduce((n, v) => n + v.analysis.lesions.length, 0);
     const absent = input.followup.tracks.reduce((n, t) => n + Object.values(t.status).filter((s) => s !== 'present').length, 0);
-    expect(rows.filter((r) => r.status === 'present')).toHaveLength(lesions);
-    expect(rows.filter((r) => r.status !== 'present')).toHaveLength(absent);
+    const lesionRows = rows.filter((r) => r.row_type === 'lesion');
+    expect(lesionRows.filter((r) => r.status === 'present')).toHaveLength(lesions);
+    expect(lesionRows.filter((r) => r.status !== 'present')).toHaveLength(absent);
     expect(absent).toBeGreaterThan(0);
   });
 
@@ -85,9 +87,50 @@ describe('case-form export', () => {
     expect(fractionsText({ IVb: 0.33333, II: 0.66667 })).toBe('II:0.6667;IVb:0.3333');
     const gone = rows.filter((r) => r.status === 'gone');
     expect(gone.every((r) => r.lesion === '' && r.longest_axial_mm === '0')).toBe(true);
-    const fresh = rows.filter((r) => r.new_lesion === 'yes');
+    const fresh = rows.filter((r) => r.row_type === 'lesion' && r.new_lesion === 'yes');
     expect(fresh.map((r) => r.visit)).toEqual(['v3']);
     expect(rows.filter((r) => r.visit === 'v1').every((r) => r.days_from_baseline === '0' && r.change_from_baseline_pct === '')).toBe(true);
+  });
+
+  it('starts each visit with one summary row: the visit\'s response, sums and reading, lesion columns empty', () => {
+    const summaries = rows.filter((r) => r.row_type === 'visit');
+    expect(summaries.map((r) => r.visit)).toEqual(input.followup.visits.map((v) => v.id));
+    for (const v of input.followup.visits) {
+      const own = rows.filter((r) => r.visit === v.id);
+      expect(own[0].row_type).toBe('visit');
+      expect(own.slice(1).every((r) => r.row_type === 'lesion')).toBe(true);
+      expect(own[0]).toMatchObject({
+        track: '', lesion: '', segment: '', longest_axial_mm: '', target: '',
+        target_sum_mm: decimal(v.response.targetSumMm, 2),
+        margin_alert: v.marginAlerts.length ? 'yes' : 'no',
+        evaluation: v.response.targetSumComplete ? 'measured' : 'NE',
+      });
+    }
+    // The response is computed, and says so on every row that carries one.
+    expect(rows.every((r) => (r.response === '') === (r.response_basis === ''))).toBe(true);
+    expect(rows.filter((r) => r.response !== '').every((r) => r.response_basis === 'computed')).toBe(true);
+  });
+
+  it('writes NE for a track that cannot be assessed, and absent for one that vanished (RECIST 1.1: 0 mm)', () => {
+    const absent = rows.filter((r) => r.row_type === 'lesion' && r.status !== 'present');
+    for (const r of absent) expect(r.evaluation).toBe(r.status === 'not-evaluable' ? 'NE' : 'absent');
+    expect(rows.filter((r) => r.status === 'present').every((r) => r.evaluation === 'measured')).toBe(true);
+  });
+
+  it('fills the reading columns from the manifest, the reader name from the app when the manifest has none', () => {
+    const [first, ...rest] = input.manifest.visits;
+    const withReading = {
+      ...input,
+      manifest: { ...input.manifest, visits: [{ ...first, modality: 'CT' as const, contrastPhase: 'portal venous', reader: 'A. Reader', readDate: '2026-02-01' }, ...rest] },
+      visits: input.visits.map((v) => ({ ...v, sliceThicknessMm: 2.5 })),
+    };
+    const out = caseFormRows(withReading, 'SYN-0001', { reader: 'B. Nurse' });
+    const at = (visit: string) => out.filter((r) => r.visit === visit);
+    for (const r of at(first.id)) {
+      expect(r).toMatchObject({ modality: 'CT', contrast_phase: 'portal venous', slice_thickness_mm: '2.5', reader: 'A. Reader', reading_date: '2026-02-01' });
+    }
+    for (const r of at(rest[0].id)) expect(r).toMatchObject({ modality: '', contrast_phase: '', reader: 'B. Nurse', reading_date: '' });
+    expect(rows.every((r) => r.reader === '' && r.slice_thickness_mm === '')).toBe(true);
   });
 
   it('decimal gives the shortest form of the rounded value and empty for missing', () => {
@@ -96,5 +139,26 @@ describe('case-form export', () => {
     expect(decimal(-0.001, 2)).toBe('0');
     expect(decimal(null, 2)).toBe('');
     expect(decimal(Number.NaN, 2)).toBe('');
+  });
+});
+
+describe('docs/case-form.md', () => {
+  // The data dictionary is the form's contract: its column table lists every column, in order.
+  const doc = readFileSync('docs/case-form.md', 'utf8');
+  const documented = [...doc.matchAll(/^\| `([a-z_]+)` \|/gm)].map((m) => m[1]);
+
+  it('lists exactly the columns the export writes, in the same order', () => {
+    expect(documented).toEqual([...CASE_FORM_COLUMNS]);
+  });
+
+  it('names every value the new columns take', () => {
+    const row = (name: string) => doc.split('\n').find((l) => l.startsWith(`| \`${name}\` |`)) ?? '';
+    for (const v of ['`visit`', '`lesion`']) expect(row('row_type')).toContain(v);
+    for (const v of ['`measured`', '`absent`', '`NE`']) expect(row('evaluation')).toContain(v);
+    expect(row('response_basis')).toContain('`computed`');
+    for (const v of ['`CT`', '`MR`']) expect(row('modality')).toContain(v);
+    const input = syntheticPatient({ visits: 3, lesions: 4 });
+    const values = new Set(caseFormRows(input, 'SYN-0001').flatMap((r) => [r.row_type, r.evaluation, r.response_basis]).filter(Boolean));
+    for (const v of values) expect(`${row('row_type')}${row('evaluation')}${row('response_basis')}`).toContain(`\`${v}\``);
   });
 });

@@ -112,3 +112,31 @@ describe('lesion placement', () => {
     for (const s of [...d.base, ...d.lesions.flatMap((m) => [...m.shapes, m.label])]) expect(Object.keys(s.attrs)).not.toContain('style');
   });
 });
+
+describe('a lesion crossing a segment border', () => {
+  // 60% of the lesion's voxels in V, 40% in VIII (margin 0: it spans segments, brief: measures).
+  const crossing = {
+    id: 'L1', centroidMm: [-70, -20, 4] as [number, number, number], segment: 'V' as SegmentName, longestAxialMm: 24, volumeMl: 3,
+    marginAlert: true, marginMm: 0, nearestOtherSegment: 'VIII' as SegmentName, segmentFractions: { V: 0.6, VIII: 0.4 },
+  };
+  const inside = { ...crossing, id: 'L2', centroidMm: [40, 0, 0] as [number, number, number], segment: 'III' as SegmentName, marginMm: 30, nearestOtherSegment: 'II' as SegmentName, segmentFractions: { III: 1 } };
+  const visits = [{ id: 'v1', date: '2026-01-12', sliceThicknessMm: 2.5, lesions: [crossing, inside] }];
+  const f = runFollowup(visits, { marginMm: 10 });
+
+  it('is drawn on the border between its two segments, with the share in each', () => {
+    const [onBorder, inIII] = placeLesions(f, visits, 'v1');
+    expect(onBorder.crossing).toEqual(['V', 'VIII']);
+    expect(onBorder.shares).toEqual([{ segment: 'V', share: 0.6 }, { segment: 'VIII', share: 0.4 }]);
+    // V and VIII meet on the portal line between the right and middle hepatic veins.
+    expect(onBorder.at[1]).toBeCloseTo(PORTAL_Y, 9);
+    expect(onBorder.at[0]).toBeGreaterThan(lineX(RIGHT_HEPATIC_VEIN, PORTAL_Y));
+    expect(onBorder.at[0]).toBeLessThan(lineX(MIDDLE_HEPATIC_VEIN, PORTAL_Y));
+    expect(inIII.crossing).toBeNull();
+    expect(insidePolygon(inIII.at, REGIONS.III.polygon)).toBe(true);
+    const d = diagramDrawing({ segments: ['I', 'II', 'III', 'IV', 'V', 'VI', 'VII', 'VIII'], lesions: [onBorder, inIII], label: 'v1' });
+    expect(d.lesions[0].label.text).toBe('T1 V 60% / VIII 40%');
+    expect(d.lesions[0].attrs['data-crossing']).toBe('V|VIII');
+    expect(d.lesions[0].title).toContain('crossing the border: V 60% / VIII 40%');
+    expect(d.lesions[1].label.text).toBe('T2');
+  });
+});

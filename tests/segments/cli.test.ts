@@ -1,4 +1,5 @@
 // End-to-end check of `falciform segments` on files written with the project's NIfTI writer.
+import { CAUTION } from '../../src/caution.js';
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -48,7 +49,9 @@ describe('falciform segments (source: contracts.md, command line)', () => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const doc = JSON.parse(r.stdout);
-    expect(Object.keys(doc)).toEqual(['segments', 'liverVolumeMl', 'qc', 'warnings']);
+    expect(Object.keys(doc)).toEqual(['segments', 'liverVolumeMl', 'qc', 'warnings', 'method', 'caution']);
+    expect(doc.caution).toBe(CAUTION);
+    expect(doc.method).toMatch(/approximation by flat planes/);
     // Same numbers as the core on the same inputs (the CLI and the app share one core).
     const core = buildSegmentMap(liver, phantomLandmarks(), { caudate, splitIV: true });
     const want = segmentVolumes(core.map);

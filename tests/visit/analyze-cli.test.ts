@@ -1,3 +1,4 @@
+import { CAUTION } from '../../src/caution.js';
 import { rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -70,7 +71,8 @@ describe('falciform analyze', () => {
     expect(r.code).toBe(0);
     expect(r.stdout.trim().split('\n')).toHaveLength(1);
     const doc = JSON.parse(r.stdout);
-    expect(Object.keys(doc)).toEqual(['segments', 'liverVolumeMl', 'lesions', 'warnings']);
+    expect(Object.keys(doc)).toEqual(['segments', 'liverVolumeMl', 'lesions', 'warnings', 'caution']);
+    expect(doc.caution).toBe(CAUTION);
     expect(doc.lesions).toHaveLength(2);
     for (const l of doc.lesions) expect(Object.keys(l).slice(0, CONTRACT_LESION_KEYS.length)).toEqual(CONTRACT_LESION_KEYS);
     const core = analyzeVisit({

@@ -12,7 +12,9 @@ import { segmentMapFileName } from '../../../src/report/segment-map-export';
 import { usePatient } from '../../analysis/PatientContext';
 import { visitRemnant } from '../../analysis/remnant';
 import { errorText } from '../../error-text';
-import { desktopBridge, saveBytes } from '../../platform/bridge';
+import { desktopBridge, savedWhere, saveBytes } from '../../platform/bridge';
+import { appDb } from '../../store/db';
+import { getSetting } from '../../store/patients';
 import { useBoardStylesheet } from '../../report/board-stylesheet';
 import { exportSegmentMap } from '../../report/export-segment-map';
 
@@ -80,9 +82,10 @@ export function BoardTab() {
 
   const exportCsv = async () => {
     try {
-      const csv = caseFormCsv(caseFormRows(input, label));
-      const saved = await saveBytes(`${label}-case-form.csv`, utf8(csv), 'text/csv');
-      setStatus(saved ? { kind: 'done', text: `Case form exported (${csv.split('\r\n').length - 2} rows).` } : null);
+      const csv = caseFormCsv(caseFormRows(input, label, { reader: await getSetting(appDb(), 'readerName') }));
+      const name = `${label}-case-form.csv`;
+      const saved = await saveBytes(name, utf8(csv), 'text/csv');
+      setStatus(saved ? { kind: 'done', text: `Case form exported (${csv.split('\r\n').length - 2} rows).${savedWhere(name)}` } : null);
     } catch (e) {
       setStatus({ kind: 'problem', text: `The case form was not exported: ${errorText(e)}` });
     }
@@ -92,8 +95,9 @@ export function BoardTab() {
     try {
       setStatus({ kind: 'busy', text: `Encoding the segment map of ${visitId}…` });
       const bytes = await exportSegmentMap(patient.id, visitId);
-      const saved = await saveBytes(`${label}-${segmentMapFileName(visitId)}`, bytes, 'application/gzip');
-      setStatus(saved ? { kind: 'done', text: `Segment map of ${visitId} exported as NIfTI-1 (.nii.gz).` } : null);
+      const name = `${label}-${segmentMapFileName(visitId)}`;
+      const saved = await saveBytes(name, bytes, 'application/gzip');
+      setStatus(saved ? { kind: 'done', text: `Segment map of ${visitId} exported as NIfTI-1 (.nii.gz).${savedWhere(name)}` } : null);
     } catch (e) {
       setStatus({ kind: 'problem', text: `The segment map of ${visitId} was not exported: ${errorText(e)}` });
     }

@@ -2,7 +2,9 @@ import { useState } from 'react';
 import { usePatient } from '../../analysis/PatientContext';
 import { oneDecimal } from '../../format';
 import { SegmentDiagram } from '../../diagram/SegmentDiagram';
+import { sharesText } from '../../../src/report/diagram-drawing';
 import { placeLesions } from '../../../src/report/diagram-placement';
+import { PLANE_APPROXIMATION } from '../../../src/segments/build';
 
 /** The segment diagram for one visit at a time, with that visit's lesions listed beside it. */
 export function DiagramTab() {
@@ -16,6 +18,7 @@ export function DiagramTab() {
   const lesions = placeLesions(f, visits.map((v) => ({ id: v.id, lesions: v.analysis.lesions })), visit.id);
   const response = f.visits.find((v) => v.id === visit.id);
   const segments = visit.analysis.segments.map((s) => s.segment);
+  const builtFromLandmarks = analysis.manifest.visits.find((v) => v.id === visit.id)?.segments === undefined;
   return (
     <section aria-labelledby="diagram-title">
       <div className="section-bar">
@@ -37,10 +40,12 @@ export function DiagramTab() {
             caption={`Segment diagram, visit ${visit.id} (${visit.date}): ${lesions.length} lesion(s)`}
           />
           <p className="chart-note">
-            Schematic front view, the patient&apos;s right on the left, as on the board summary; the outline is not to scale, the dots are.
-            Each lesion sits in the segment holding its centroid, at the same place at every visit. {segments.includes('I') ? '' : 'Segment I is not in this visit\'s segment map. '}
+            Schematic front view, the patient&apos;s right on the left, as on the board summary; the outline and the positions are
+            schematic, the dot sizes are to scale. Each lesion sits in the segment holding its centroid, at the same place at every
+            visit; a lesion with parts in two segments sits on their border, with its share in each. {segments.includes('I') ? '' : 'Segment I is not in this visit\'s segment map. '}
             Segments drawn unfilled are absent from the map.
           </p>
+          {builtFromLandmarks && <p className="chart-note" data-testid="plane-approximation">{PLANE_APPROXIMATION}</p>}
         </div>
         <div className="diagram-side">
           <h4>Visit {visit.id}, {visit.date}{response?.overall ? <> · <span className={`category category-${response.overall.replace(/[^A-Za-z]/g, '')}`}>{response.overall}</span></> : visit === visits[0] ? ' · baseline' : ''}</h4>
@@ -54,7 +59,7 @@ export function DiagramTab() {
                   <tr key={l.lesion} data-testid="diagram-row" data-lesion={l.lesion}>
                     <th scope="row">{l.track ?? '—'}{l.isNew ? ' (new)' : ''}</th>
                     <td>{l.lesion}</td>
-                    <td>{l.segment ?? 'outside'}</td>
+                    <td data-testid="diagram-segment">{l.segment ?? 'outside'}{l.crossing ? <span className="muted"> (crosses: {sharesText(l)})</span> : null}</td>
                     <td className="num">{oneDecimal(l.longestAxialMm)}</td>
                     <td className={`num${l.alert ? ' alert-cell' : ''}`}>{l.marginMm === null ? '—' : `${oneDecimal(l.marginMm)}${l.nearestOtherSegment ? ` to ${l.nearestOtherSegment}` : ''}`}</td>
                   </tr>

@@ -1,4 +1,6 @@
+import { COMPUTED_RESPONSE } from '../../../src/caution';
 import type { VisitFollowup } from '../../../src/followup/followup';
+import { PLANE_APPROXIMATION } from '../../../src/segments/build';
 import { usePatient } from '../../analysis/PatientContext';
 import { RouteLink } from '../../components/RouteLink';
 import { fmtMm, fmtPct } from '../../format';
@@ -23,7 +25,7 @@ export function OverviewTab() {
             <th scope="col">Target sum</th>
             <th scope="col">vs baseline</th>
             <th scope="col">vs nadir</th>
-            <th scope="col">Response ({analysis.followup.criteria})</th>
+            <th scope="col">Response ({analysis.followup.criteria}, computed)</th>
             <th scope="col">New</th>
           </tr>
         </thead>
@@ -39,7 +41,7 @@ export function OverviewTab() {
                 <th scope="row">
                   <RouteLink to={{ screen: 'visit', patientId: patient.id, visitId: mv.id }}>{mv.id}</RouteLink>
                 </th>
-                <td>{mv.segments ? 'imported' : 'built from landmarks'}</td>
+                <td>{mv.segments ? 'imported' : <>built from landmarks <span className="muted">(flat planes)</span></>}</td>
                 <td>{lesions.length} ({[mv.lesions && 'mask', mv.marks && 'marks'].filter(Boolean).join(' + ')})</td>
                 <td className={f?.marginAlerts.length ? 'alert-cell' : undefined}>{f?.marginAlerts.join(', ') || '—'}</td>
                 <td>{fmtMm(r?.targetSumMm, 1)}</td>
@@ -56,6 +58,8 @@ export function OverviewTab() {
           })}
         </tbody>
       </table>
+      <p className="hint" data-testid="computed-response-note">{COMPUTED_RESPONSE}</p>
+      {analysis.manifest.visits.some((v) => !v.segments) && <p className="hint" data-testid="plane-approximation">{PLANE_APPROXIMATION}</p>}
       {analysis.followup.notes.length > 0 && (
         <ul className="notes">
           {analysis.followup.notes.map((n) => <li key={n}>{n}</li>)}

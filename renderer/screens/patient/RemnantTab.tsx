@@ -219,6 +219,7 @@ function PlanSummary({ plan }: { plan: PatientRemnant }) {
 
       <h4>Minimum remnant shares</h4>
       <p className="hint" data-testid="cautions-note">{plan.cautionsNote}</p>
+      {plan.overFull && <p className="notice estimate" data-testid="remnant-over-full">{plan.overFull}</p>}
       <ShareScale value={compared.value} minimums={plan.cautions.map((c) => c.minimumShare)} />
       <table className="data-table cautions-table">
         <thead>
@@ -226,16 +227,16 @@ function PlanSummary({ plan }: { plan: PatientRemnant }) {
             <th scope="col">Liver</th>
             <th scope="col" className="num">Commonly quoted minimum</th>
             <th scope="col" className="num">{compared.kind === 'standardised' ? 'Standardised remnant' : 'Measured share'}</th>
-            <th scope="col">Met?</th>
+            <th scope="col">Compared share is</th>
           </tr>
         </thead>
         <tbody>
           {plan.cautions.map((c) => (
-            <tr key={c.context} data-testid="remnant-caution" data-met={c.met}>
+            <tr key={c.context} data-testid="remnant-caution" data-above={c.met}>
               <th scope="row">{c.context}</th>
               <td className="num">{pct(c.minimumShare)}</td>
               <td className="num">{pct(compared.value)}</td>
-              <td className={c.met ? 'met' : 'not-met'}>{c.met ? 'met' : 'not met'}</td>
+              <td className="relation">{minimumRelation(c.met)}</td>
             </tr>
           ))}
         </tbody>
@@ -251,14 +252,20 @@ function PlanSummary({ plan }: { plan: PatientRemnant }) {
             <li key={a.lesion} data-lesion={a.lesion} className={a.where === 'in remnant' ? 'stays' : 'cut'}>
               <strong>{named(a.lesion, a.track)}</strong> in {a.segment ?? 'no segment'},{' '}
               {a.marginMm === null ? 'margin not measured' : `${a.marginMm.toFixed(1)} mm`} from {a.nearestOtherSegment ?? 'another segment'}:{' '}
-              {a.where === 'in remnant' ? 'would stay in the remnant' : 'taken out, but close to the cut towards a segment that stays'}
+              {ALERT_WHERE[a.where]}
             </li>
           ))}
         </ul>
       )}
       <p className="hint" data-testid="remnant-lesions">
-        Lesions left in the remnant: {plan.lesionsInRemnant.map((id) => named(id, plan.lesionTracks[id])).join(', ') || 'none'}.
+        Lesions left wholly in the remnant: {plan.lesionsInRemnant.map((id) => named(id, plan.lesionTracks[id])).join(', ') || 'none'}.
       </p>
+      {plan.lesionsCrossingCut.length > 0 && (
+        <p className="hint" data-testid="remnant-crossing">
+          Crossing the cut (part in a removed segment, part in one that stays):{' '}
+          {plan.lesionsCrossingCut.map((c) => `${named(c.id, plan.lesionTracks[c.id])}, ${pct(c.keptShare)} of it in the remnant`).join('; ')}.
+        </p>
+      )}
       {plan.warnings.length > 0 && (
         <ul className="warnings" data-testid="remnant-warnings">
           {plan.warnings.map((w) => <li key={w}>{w}</li>)}
@@ -268,12 +275,25 @@ function PlanSummary({ plan }: { plan: PatientRemnant }) {
   );
 }
 
-/** The compared share on a 0–100 % scale with the minimums marked, so distance to each reads at a glance. */
+/** Neutral words for where the compared share lies against a minimum: a figure to weigh, not a verdict. */
+const minimumRelation = (atOrAbove: boolean) => (atOrAbove ? 'above the commonly quoted minimum' : 'below the commonly quoted minimum');
+
+const ALERT_WHERE: Record<PatientRemnant['alertLesions'][number]['where'], string> = {
+  'in remnant': 'would stay in the remnant',
+  'crosses the cut': 'crosses the cut: part of it would stay',
+  'at transection': 'taken out, but close to the cut towards a segment that stays',
+};
+
+/**
+ * The compared share on a 0–100 % scale with the minimums marked, so distance to each reads at a
+ * glance. Over 100 % there is no fill: a full bar would read as "all of the liver"; a double end mark
+ * and the figure point to the note above the scale instead.
+ */
 function ShareScale({ value, minimums }: { value: number; minimums: number[] }) {
   const at = (x: number) => `${Math.min(100, Math.max(0, x * 100))}%`;
   return (
     <div className="share-scale" role="img" aria-label={`Compared share ${pct(value)}; minimums ${minimums.map(pct).join(', ')}`}>
-      <div className="share-fill" style={{ width: at(value) }} />
+      {value <= 1 ? <div className="share-fill" style={{ width: at(value) }} /> : <span className="share-over" data-testid="share-over"><span>{pct(value)}, over the scale: see the note</span></span>}
       {minimums.map((m) => (
         <span key={m} className="share-tick" style={{ left: at(m) }}><span>{pct(m)}</span></span>
       ))}

@@ -77,7 +77,8 @@ export function TracksTab() {
     const v = seen[seen.length - 1];
     return v ? `${t.segments[v.id] ?? 'outside'}, ${t.longestAxialMm[v.id]} mm at ${v.id}` : '';
   };
-  const linkChoice = candidates.some((t) => t.id === linkTo) ? linkTo : (candidates[0]?.id ?? '');
+  // The lesion's own track is the default: nothing changes until the reader picks another.
+  const linkChoice = candidates.some((t) => t.id === linkTo) ? linkTo : (selTrack?.id ?? candidates[0]?.id ?? '');
   const name = (t: TrackSummary) => ({ ref: trackRef(t), label: t.id });
 
   return (
@@ -176,12 +177,13 @@ export function TracksTab() {
                 <label>
                   Link to
                   <select value={linkChoice} onChange={(e) => setLinkTo(e.target.value)} data-testid="link-track">
+                    {selTrack && <option value={selTrack.id}>{selTrack.id} (its track now)</option>}
                     {candidates.map((t) => <option key={t.id} value={t.id}>{t.id} ({lastSize(t) || `from ${t.firstVisit}`})</option>)}
                   </select>
                 </label>
                 <button
                   type="button"
-                  disabled={busy || !linkChoice}
+                  disabled={busy || !linkChoice || linkChoice === selTrack?.id}
                   onClick={() => { const t = candidates.find((c) => c.id === linkChoice); if (t) void edit(() => linkLesion(appDb(), patient.id, at, name(t))); }}
                   data-testid="link-lesion"
                 >
@@ -255,11 +257,12 @@ function Trail({ entries }: { entries: AuditRecord[] }) {
       <h4 id="trail-title">Trail</h4>
       <p className="chart-note">Every change to this patient&apos;s records, kept on this computer.</p>
       <table className="data-table compact trail-table">
-        <thead><tr><th scope="col">Time</th><th scope="col">Change</th><th scope="col">Before</th><th scope="col">After</th></tr></thead>
+        <thead><tr><th scope="col">Time</th><th scope="col">By</th><th scope="col">Change</th><th scope="col">Before</th><th scope="col">After</th></tr></thead>
         <tbody>
           {shown.map((a) => (
             <tr key={a.id} data-testid="trail-row" data-entity={a.entity} data-action={a.action}>
               <td>{localTime(a.at)}</td>
+              <td data-testid="trail-by">{a.by ?? '—'}</td>
               <td>{what(a)}</td>
               <td>{value(a.oldValue, a.field)}</td>
               <td>{value(a.newValue, a.field)}</td>
@@ -287,10 +290,22 @@ function value(v: JsonValue, field: string): string {
     const track = typeof v.track === 'string' ? ` ${v.kind === 'link' ? 'to' : 'from'} the track of ${v.track.replace(':', '/')}` : '';
     return `${v.kind} ${v.visit}/${v.lesion}${track}`;
   }
-  if (Array.isArray(v)) return v.map((x) => value(x, '')).join(', ') || 'none';
-  if (typeof v === 'object') return Object.values(v).map((x) => value(x, '')).join(' ');
+  if (Array.isArray(v)) {
+    // A point in world mm, e.g. a mark's centre, reads as one: (68.4, −45.8, 7.5) mm.
+    if (v.length === 3 && v.every((x) => typeof x === 'number')) return `(${v.map((x) => (x as number).toFixed(1)).join(', ')}) mm`;
+    return v.map((x) => value(x, '')).join(', ') || 'none';
+  }
+  if (typeof v === 'object') {
+    return Object.entries(v).map(([k, x]) => `${FIELD_WORDS[k] ?? k} ${value(x, k)}${typeof x === 'number' && /Mm$/.test(k) ? ' mm' : ''}`).join('; ');
+  }
   return String(v);
 }
+
+/** Names of stored fields as the trail shows them beside their values. */
+const FIELD_WORDS: Record<string, string> = {
+  id: 'id', centreMm: 'centre', longestAxialMm: 'longest axial', shortAxisMm: 'short axis', viableAxialMm: 'viable',
+  endpointsMm: 'caliper ends', heightCm: 'height (cm)', weightKg: 'weight (kg)', source: 'source',
+};
 
 /** A correction as stored in the trail when it was withdrawn or replaced. */
 function isOverride(v: JsonValue): v is { kind: string; visit: string; lesion: string; track?: string } {

@@ -85,6 +85,8 @@ function forJson(a: VisitAnalysis) {
     liverVolumeMl: ml(a.liverVolumeMl),
     lesions: a.lesions.map(lesionJson),
     warnings: a.warnings,
+    // Travels with the numbers, as in `followup --json`.
+    caution: CAUTION,
   };
 }
 

@@ -81,7 +81,7 @@ export const report: Command = {
       key !== undefined ? await keyedPseudonym(manifest.patient.id, key) : args.options.has('pseudonymise') ? randomPseudonym() : null;
     const input: ReportInput = {
       manifest,
-      visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings })),
+      visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
       followup,
       remnant,
     };

@@ -1,6 +1,6 @@
 import { CAUTION } from '../../caution.js';
 import { roundTo } from '../../rounding.js';
-import { buildSegmentMap } from '../../segments/build.js';
+import { buildSegmentMap, PLANE_APPROXIMATION } from '../../segments/build.js';
 import { parseLandmarks } from '../../segments/landmarks.js';
 import { landmarkQc, parseReferenceSets, type LandmarkQc } from '../../segments/qc.js';
 import { liverVolumeMl, segmentVolumes } from '../../segments/volumes.js';
@@ -52,7 +52,7 @@ export const segments: Command = {
     const liverMl = roundTo(liverVolumeMl(built.map), 3);
 
     if (json) {
-      process.stdout.write(`${JSON.stringify({ segments: volumes, liverVolumeMl: liverMl, qc, warnings })}\n`);
+      process.stdout.write(`${JSON.stringify({ segments: volumes, liverVolumeMl: liverMl, qc, warnings, method: PLANE_APPROXIMATION, caution: CAUTION })}\n`);
       return;
     }
     const lines = [`segment map written to ${outFile}`, '', 'segment   volume (mL)'];
