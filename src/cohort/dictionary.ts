@@ -34,6 +34,14 @@ const ENTRIES: Record<CaseFormColumn, Entry> = {
   change_from_nadir_pct: ['number', '%', 'Change of the target sum from its smallest value so far; empty at baseline'],
   software: ['text', '', 'Falciform and its version'],
   caution: ['text', '', 'The clinical caution, on every row'],
+  row_type: ['text', '', "visit for the visit's summary row, lesion for a lesion row"],
+  evaluation: ['text', '', 'Lesion row: measured, absent (recorded as 0 mm) or NE; summary row: NE when a target was not evaluable, else measured'],
+  response_basis: ['text', '', 'computed wherever response holds a category: worked out from the diameters, to be confirmed by a qualified reader'],
+  modality: ['text', '', 'CT or MR, from the manifest visit; empty when not given'],
+  contrast_phase: ['text', '', 'Contrast phase as the manifest visit names it; empty when not given'],
+  slice_thickness_mm: ['number', 'mm', "The scan's voxel spacing along the axial normal"],
+  reader: ['text', '', 'Who read the visit (manifest reader, else the reader name set in the app)'],
+  reading_date: ['date', '', 'Date the visit was read, from the manifest; empty when not given'],
 };
 
 export const DICTIONARY_COLUMNS = ['variable', 'type', 'unit', 'meaning'] as const;
