@@ -370,6 +370,8 @@ const DEPENDENCY_TEXT = [
   /^https:\/\/redux\.js\.org\/Errors\?code=\$\{e\}$/,
   /^https:\/\/redux-toolkit\.js\.org\/Errors\?code=\$\{e\}$/,
   /^https:\/\/bit\.ly\/3cXEKWf$/,
+  // dicom-parser: its project page in the licence banner comment the bundler keeps (never fetched).
+  /^https:\/\/github\.com\/cornerstonejs\/dicomParser$/,
 ];
 const REMOTE_URL = /\b(?:https?|wss?|ftp):\/\/[^\s'"`)<>\\]*/g;
 
