@@ -1,5 +1,6 @@
 import type { SegmentName } from '../../src/segments/segment-map';
 import { oneDecimal } from '../format';
+import { PLANE_APPROXIMATION } from '../../src/segments/build';
 import { IMAGE_SEGMENT_COLOURS, legendSegments } from './palette';
 import type { VisitVolumes } from './volume-messages';
 
@@ -22,7 +23,7 @@ export function SegmentPanel({ volumes, segmentVolumes, liverVolumeMl, show, onS
   return (
     <section className="side-section" aria-labelledby="segment-map-title">
       <h3 id="segment-map-title">Segment map</h3>
-      {seg && <p className="side-note" data-testid="map-source">{seg.source === 'built' ? 'Built from this visit\'s landmarks inside the liver mask.' : 'Imported with the visit.'}</p>}
+      {seg && <p className="side-note" data-testid="map-source">{seg.source === 'built' ? `Built from this visit's landmarks inside the liver mask. ${PLANE_APPROXIMATION}` : 'Imported with the visit.'}</p>}
       {volumes?.segmentProblem && <p className="notice problem" role="alert" data-testid="map-problem">No segment map: {volumes.segmentProblem}</p>}
       <div className="wash-controls">
         <label className="wash-toggle">
@@ -48,7 +49,7 @@ export function SegmentPanel({ volumes, segmentVolumes, liverVolumeMl, show, onS
           )}
         </tbody>
       </table>
-      <p className="side-note">Colours: Okabe–Ito colour-blind-safe palette; IVb striped.</p>
+      <p className="side-note">Colours: Okabe–Ito colour-blind-safe palette; IVb striped; I light grey here (its black would vanish on CT).</p>
     </section>
   );
 }

@@ -227,7 +227,7 @@ function PlanSummary({ plan }: { plan: PatientRemnant }) {
             <th scope="col">Liver</th>
             <th scope="col" className="num">Commonly quoted minimum</th>
             <th scope="col" className="num">{compared.kind === 'standardised' ? 'Standardised remnant' : 'Measured share'}</th>
-            <th scope="col">Compared share is</th>
+            <th scope="col">Compared share is, against this minimum</th>
           </tr>
         </thead>
         <tbody>
@@ -276,7 +276,7 @@ function PlanSummary({ plan }: { plan: PatientRemnant }) {
 }
 
 /** Neutral words for where the compared share lies against a minimum: a figure to weigh, not a verdict. */
-const minimumRelation = (atOrAbove: boolean) => (atOrAbove ? 'above the commonly quoted minimum' : 'below the commonly quoted minimum');
+const minimumRelation = (atOrAbove: boolean) => (atOrAbove ? 'above' : 'below');
 
 const ALERT_WHERE: Record<PatientRemnant['alertLesions'][number]['where'], string> = {
   'in remnant': 'would stay in the remnant',
