@@ -204,6 +204,7 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
     criteria: manifest.criteria,
     targets: manifest.targets,
     resection: manifest.resection,
+    protocol: manifest.protocol,
     createdAt: now,
     importedFrom: source,
   });
@@ -251,6 +252,7 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
       scheme: visit.scheme === undefined ? undefined : visit.scheme === 'default' ? ('default' as const) : ('file' as const),
       splitIV: visit.splitIV,
       note: visit.note,
+      reader: visit.reader,
     });
     plan.visits.push({ ...record, storedBytes: visitStoredBytes(record, volumes, inputs) });
     plan.volumes.push(...volumes);

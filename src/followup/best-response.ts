@@ -69,8 +69,8 @@ export function bestOverallResponse(points: readonly TimePoint[], protocol: Resp
       const byCr = later.find((q) => q.category === 'CR');
       const byPr = later.find((q) => q.category === 'CR' || q.category === 'PR');
       if (c === 'CR' && byCr) return offer('CR', p.visit, byCr.visit);
-      if (byPr) return offer('PR', p.visit, byPr.visit);
       if (unconfirmed === null || (unconfirmed === 'PR' && c === 'CR')) unconfirmed = c;
+      if (byPr) return offer('PR', p.visit, byPr.visit);
       if (sdMet(p)) offer('SD', p.visit, null);
       return;
     }
