@@ -1,5 +1,6 @@
 import { CAUTION } from '../caution.js';
 import type { FollowupResult, TrackSummary } from '../followup/followup.js';
+import { bestResponseText } from '../followup/best-response.js';
 import { roundTo } from '../rounding.js';
 import { SEGMENT_NAMES } from '../segments/segment-map.js';
 import type { LesionResult } from '../visit/analyze.js';
@@ -18,6 +19,7 @@ export const CASE_FORM_COLUMNS = [
   'segment_fractions', 'longest_axial_mm', 'short_axis_mm', 'volume_ml', 'margin_mm', 'nearest_other_segment',
   'margin_alert', 'set_margin_mm', 'target', 'new_lesion', 'response', 'criteria', 'target_sum_mm',
   'change_from_baseline_pct', 'change_from_nadir_pct', 'software', 'caution',
+  'viable_axial_mm', 'new_lesion_call', 'non_target_call', 'outside_liver', 'best_response', 'progression_date',
 ] as const;
 
 export type CaseFormColumn = (typeof CASE_FORM_COLUMNS)[number];
@@ -56,11 +58,21 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
       set_margin_mm: decimal(f.marginMm, 2),
       response: k === 0 ? '' : (v.overall ?? ''),
       criteria: f.criteria,
-      target_sum_mm: decimal(r.targetSumMm, 2),
+      // A sum with a target not evaluable is no sum (RECIST 1.1 section 4.4.2): NE, never a smaller number.
+      target_sum_mm: r.targetSumComplete ? decimal(r.targetSumMm, 2) : 'NE',
       change_from_baseline_pct: k === 0 ? '' : decimal(r.changeFromBaselinePct, 1),
       change_from_nadir_pct: k === 0 ? '' : decimal(r.changeFromNadirPct, 1),
       software: `Falciform ${VERSION}`,
       caution: CAUTION,
+      non_target_call: k === 0 ? '' : (v.reader.nonTarget ?? ''),
+      outside_liver: k === 0 ? '' : v.reader.outsideLiver,
+      best_response: k === f.visits.length - 1 ? bestResponseText(f.bestResponse) : '',
+      progression_date: f.bestResponse.progression?.date ?? '',
+    };
+    const newCall = (t: TrackSummary | undefined) => {
+      if (!t || k === 0 || t.firstVisit === baseline.id) return '';
+      if (v.unequivocalNewLesions.some((u) => u.track === t.id)) return 'unequivocal';
+      return v.equivocalNewLesions.includes(t.id) ? 'equivocal' : '';
     };
     for (const l of lesions) {
       const t = trackOf.get(l.id);
@@ -81,6 +93,8 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
         margin_alert: yesNo(l.marginMm !== null && l.marginMm < f.marginMm),
         target: yesNo(t?.target ?? false),
         new_lesion: yesNo(t !== undefined && k > 0 && t.firstVisit === v.id),
+        viable_axial_mm: decimal(t?.viableAxialMm?.[v.id], 1),
+        new_lesion_call: newCall(t),
       });
     }
     for (const t of f.tracks) {
@@ -94,7 +108,8 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
         source: '',
         segment: '',
         segment_fractions: '',
-        longest_axial_mm: status === 'not-evaluable' ? '' : '0',
+        // Missing from the mask but not confirmed gone by a reader: not evaluable, not 0 mm.
+        longest_axial_mm: status === 'not-evaluable' || v.unconfirmedGone.includes(t.id) ? 'NE' : '0',
         short_axis_mm: '',
         volume_ml: '',
         margin_mm: '',
@@ -102,6 +117,8 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
         margin_alert: 'no',
         target: yesNo(t.target),
         new_lesion: 'no',
+        viable_axial_mm: '',
+        new_lesion_call: '',
       });
     }
   });
