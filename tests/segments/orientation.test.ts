@@ -79,7 +79,8 @@ describe('segments II and III (optional seventh landmark)', () => {
     const without = buildSegmentMap(liver, phantomLandmarks());
     expect(without.warnings.join(' ')).toMatch(/II and III are divided by the main portal plane \(an approximation\)/);
     expect(withPoint.warnings.join(' ')).not.toMatch(/II and III/);
-    const axis = [set.points.ivc_superior, set.points.ivc_inferior].reduce((d, p, n) => d.map((x, a) => x + (n === 0 ? p[a] : -p[a])), [0, 0, 0]);
+    const { ivc_superior: sup, ivc_inferior: inf } = set.points;
+    const axis = [sup[0] - inf[0], sup[1] - inf[1], sup[2] - inf[2]];
     const len = Math.hypot(...axis);
     let between = 0;
     for (let k = 0; k < dims[2]; k++) for (let j = 0; j < dims[1]; j++) for (let i = 0; i < dims[0]; i++) {
