@@ -24,6 +24,7 @@ import {
   type TargetObservation,
 } from './recist.js';
 import { responseSeries, type Criteria, type VisitResponse } from './response.js';
+import { isMarginAlert } from '../lesions/margin.js';
 import { buildTracks, type LinkHow, type Override, type Track, type TrackStatus } from './tracks.js';
 
 /**
@@ -431,7 +432,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
 /** A margin alert under the patient's margin (a lesion without a measured margin keeps its own flag). */
 export function belowMargin(l: { marginMm?: number | null; marginAlert: boolean }, marginMm: number): boolean {
   if (l.marginMm === undefined) return l.marginAlert;
-  return l.marginMm !== null && l.marginMm < marginMm;
+  return isMarginAlert(l.marginMm, marginMm);
 }
 
 function validateNamedTargets(

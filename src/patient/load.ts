@@ -108,6 +108,7 @@ async function loadVisit(
     analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions });
     // Here the segment map and lesion mask are still in hand; later steps keep only plain results.
     volumetry = visitVolumetry(segments, lesionMask ?? (marks && analysis.lesions.filter((l) => l.source === 'mark')));
+    if (visitMap.source === 'built' && v.caudate === undefined) volumetry = { ...volumetry, caudateInPlaneSegments: true };
   } catch (e) {
     // The analysis names inputs by role; the shells need the file.
     if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(files.marks ?? files.lesions ?? manifestPath, `visit ${v.id}: ${e.problem}`);

@@ -1,6 +1,7 @@
 import { CAUTION } from '../caution.js';
 import type { FollowupResult, TrackSummary } from '../followup/followup.js';
 import { bestResponseText } from '../followup/best-response.js';
+import { isMarginAlert } from '../lesions/margin.js';
 import { roundTo } from '../rounding.js';
 import { SEGMENT_NAMES } from '../segments/segment-map.js';
 import type { LesionResult } from '../visit/analyze.js';
@@ -90,7 +91,7 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
         margin_mm: decimal(l.marginMm, 2),
         nearest_other_segment: l.nearestOtherSegment ?? '',
         // Against the follow-up's set margin, as the follow-up's own alerts are.
-        margin_alert: yesNo(l.marginMm !== null && l.marginMm < f.marginMm),
+        margin_alert: yesNo(isMarginAlert(l.marginMm, f.marginMm)),
         target: yesNo(t?.target ?? false),
         new_lesion: yesNo(t !== undefined && k > 0 && t.firstVisit === v.id),
         viable_axial_mm: decimal(t?.viableAxialMm?.[v.id], 1),
