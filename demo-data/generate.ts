@@ -163,7 +163,7 @@ async function writeVisit(p: DemoPatient, vi: number, outDir: string, random: ()
     Object.assign(entry, { liver: `${visit.id}/liver.nii.gz`, landmarks: `${visit.id}/landmarks.json`, caudate: `${visit.id}/caudate.nii.gz` });
   }
   if (splitIV) entry.splitIV = true;
-  if (visit.reader) entry.reader = visit.reader;
+  if (visit.readerCalls) entry.readerCalls = visit.readerCalls;
 
   if (visit.lesionsFrom === 'marks') {
     const marks = present.map((x, m) => {

@@ -30,7 +30,7 @@ export interface DemoVisit {
   /** Rigid motion of the body for this visit: rotations about z and x (degrees), translation (mm). */
   motion: { rotZDeg: number; rotXDeg: number; shiftMm: Vec3 };
   /** The reader's calls written into the manifest (Falciform assesses only the liver). */
-  reader?: VisitReaderCalls;
+  readerCalls?: VisitReaderCalls;
 }
 
 export interface DemoPatient {
@@ -95,7 +95,7 @@ export const patients: DemoPatient[] = [
       { id: 'v1', date: '2026-02-02', segmentsFrom: 'landmarks', lesionsFrom: 'mask', motion: { rotZDeg: 0, rotXDeg: 0, shiftMm: [0, 0, 0] } },
       // The reader's staging finds no disease outside the liver: without that call a complete response
       // of the liver is PR (RECIST 1.1 table 1, non-targets not all evaluated), and the story is a CR.
-      { id: 'v2', date: '2026-04-13', segmentsFrom: 'map', lesionsFrom: 'marks', motion: { rotZDeg: -3, rotXDeg: 1, shiftMm: [-7, 2, 8] }, reader: { outsideLiver: 'none' } },
+      { id: 'v2', date: '2026-04-13', segmentsFrom: 'map', lesionsFrom: 'marks', motion: { rotZDeg: -3, rotXDeg: 1, shiftMm: [-7, 2, 8] }, readerCalls: { outsideLiver: 'none' } },
       { id: 'v3', date: '2026-07-06', segmentsFrom: 'landmarks', lesionsFrom: 'marks', motion: { rotZDeg: 2.5, rotXDeg: -2, shiftMm: [4, -6, -10] } },
       { id: 'v4', date: '2026-10-05', segmentsFrom: 'map', lesionsFrom: 'mask', motion: { rotZDeg: -1, rotXDeg: 0.5, shiftMm: [8, 4, 6] } },
     ],

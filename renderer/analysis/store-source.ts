@@ -50,7 +50,7 @@ export async function storedPatient(db: FalciformDb, patientId: string): Promise
         marks: input('marks'),
         viable: volume('viable'),
         note: v.note || undefined,
-        reader: v.reader,
+        readerCalls: v.readerCalls,
       });
     }),
   });

@@ -252,7 +252,7 @@ async function planPatient(manifest: Manifest, source: string, lookup: Lookup, w
       scheme: visit.scheme === undefined ? undefined : visit.scheme === 'default' ? ('default' as const) : ('file' as const),
       splitIV: visit.splitIV,
       note: visit.note,
-      reader: visit.reader,
+      readerCalls: visit.readerCalls,
     });
     plan.visits.push({ ...record, storedBytes: visitStoredBytes(record, volumes, inputs) });
     plan.volumes.push(...volumes);

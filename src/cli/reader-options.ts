@@ -19,7 +19,7 @@ export const READER_USAGE =
   '[--new-lesion VISIT:LESION=equivocal|unequivocal,…] [--confirmed-gone VISIT:TRACK,…] [--too-small VISIT:LESION,…]';
 
 export function withReaderOptions(m: Manifest, args: ParsedArgs): Manifest {
-  const visits = m.visits.map((v) => ({ ...v, reader: { ...(v.reader ?? {}) } }));
+  const visits = m.visits.map((v) => ({ ...v, readerCalls: { ...(v.readerCalls ?? {}) } }));
   const visitOf = (option: string, id: string) => {
     const v = visits.find((x) => x.id === id);
     if (!v) throw new UsageError(`--${option}: no visit "${id}" in the manifest (visits: ${visits.map((x) => x.id).join(', ')})`);
@@ -37,27 +37,27 @@ export function withReaderOptions(m: Manifest, args: ParsedArgs): Manifest {
   };
   for (const item of items('non-target')) {
     const [visit, call] = split('non-target', item, '=');
-    visitOf('non-target', visit).reader.nonTarget = oneOf<NonTargetCall>('non-target', call, NON_TARGET_CALLS);
+    visitOf('non-target', visit).readerCalls.nonTarget = oneOf<NonTargetCall>('non-target', call, NON_TARGET_CALLS);
   }
   for (const item of items('outside-liver')) {
     const [visit, call] = split('outside-liver', item, '=');
-    visitOf('outside-liver', visit).reader.outsideLiver = oneOf<OutsideLiverCall>('outside-liver', call, OUTSIDE_LIVER_CALLS);
+    visitOf('outside-liver', visit).readerCalls.outsideLiver = oneOf<OutsideLiverCall>('outside-liver', call, OUTSIDE_LIVER_CALLS);
   }
   for (const item of items('new-lesion')) {
     const [where, call] = split('new-lesion', item, '=');
     const [visit, lesion] = split('new-lesion', where, ':');
-    const r = visitOf('new-lesion', visit).reader;
+    const r = visitOf('new-lesion', visit).readerCalls;
     r.newLesions = { ...(r.newLesions ?? {}), [lesion]: oneOf<NewLesionCall>('new-lesion', call, NEW_LESION_CALLS) };
   }
   for (const item of items('confirmed-gone')) {
     const at = item.indexOf(':');
     if (at <= 0) throw new UsageError(`--confirmed-gone: "${item}" must read VISIT:TRACK`);
-    const r = visitOf('confirmed-gone', item.slice(0, at)).reader;
+    const r = visitOf('confirmed-gone', item.slice(0, at)).readerCalls;
     r.confirmedGone = [...(r.confirmedGone ?? []), item.slice(at + 1)];
   }
   for (const item of items('too-small')) {
     const [visit, lesion] = split('too-small', item, ':');
-    const r = visitOf('too-small', visit).reader;
+    const r = visitOf('too-small', visit).readerCalls;
     r.tooSmall = [...(r.tooSmall ?? []), lesion];
   }
   return { ...m, visits };

@@ -70,7 +70,7 @@ export interface FollowupVisit {
   /** A reader judged the non-target disease to have progressed unequivocally at this visit (as `reader.nonTarget`). */
   nonTargetProgression?: boolean;
   /** The reader's calls at this visit. */
-  reader?: VisitReaderCalls;
+  readerCalls?: VisitReaderCalls;
 }
 
 export interface FollowupOptions {
@@ -108,7 +108,7 @@ export interface VisitFollowup {
   /** Of `goneLesions`, those a reader has not confirmed gone: their targets are NE, not 0 mm. */
   unconfirmedGone: string[];
   /** The reader's calls at this visit, as given (outside the liver: 'not-assessed' when not given). */
-  reader: Required<Pick<VisitReaderCalls, 'outsideLiver'>> & VisitReaderCalls;
+  readerCalls: Required<Pick<VisitReaderCalls, 'outsideLiver'>> & VisitReaderCalls;
   notEvaluable: string[];
   marginAlerts: string[];
   alignment: VisitAlignmentSummary;
@@ -254,7 +254,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
 
   const protocol = withProtocolDefaults(opts.protocol);
   const visitIndex = new Map(visits.map((v, k) => [v.id, k]));
-  const calls = visits.map((v) => v.reader ?? {});
+  const calls = visits.map((v) => v.readerCalls ?? {});
   // "T3", or "v1:L2" for the track holding L2 at v1.
   const resolveTrack = (ref: string): Track | undefined => {
     const colon = ref.indexOf(':');
@@ -393,7 +393,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
       equivocalNewLesions: newTracksAt(k).map((t) => t.id).filter((id) => !unequivocal.some((u) => u.track === id)),
       goneLesions: withStatus('gone'),
       unconfirmedGone: tracks.filter((t) => t.visits[k]?.status === 'gone' && !goneConfirmed(t, k)).map((t) => t.id),
-      reader: { ...calls[k], outsideLiver: calls[k].outsideLiver ?? 'not-assessed' },
+      readerCalls: { ...calls[k], outsideLiver: calls[k].outsideLiver ?? 'not-assessed' },
       notEvaluable: withStatus('not-evaluable'),
       marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => belowMargin(l, opts.marginMm))).map((t) => t.id),
       alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },

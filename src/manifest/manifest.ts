@@ -52,7 +52,7 @@ const visit = z
     /** Viable (enhancing) tumour mask for mRECIST, on any grid. */
     viable: relPath.optional(),
     note: z.string().max(2000).optional(),
-    reader: readerCalls.optional(),
+    readerCalls: readerCalls.optional(),
   })
   .superRefine((v, ctx) => {
     const hasMap = v.segments !== undefined;

@@ -55,7 +55,7 @@ export interface VisitRecord {
   splitIV?: boolean;
   note?: string;
   /** The reader's calls at this visit (manifest visit `reader`). */
-  reader?: VisitReaderCalls;
+  readerCalls?: VisitReaderCalls;
   /** Bytes the visit takes in the store (its records' JSON plus compressed volumes); schema 2 on. */
   storedBytes: number;
 }

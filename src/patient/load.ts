@@ -136,7 +136,7 @@ async function loadVisit(
     liver,
     sliceThicknessMm,
     viable,
-    ...(v.reader ? { reader: v.reader } : {}),
+    ...(v.readerCalls ? { readerCalls: v.readerCalls } : {}),
   };
   return { manifest: v, analysis, volumetry, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
 }

@@ -65,8 +65,8 @@ export function caseFormRows(input: ReportInput, patientLabel: string): CaseForm
       change_from_nadir_pct: k === 0 ? '' : decimal(r.changeFromNadirPct, 1),
       software: `Falciform ${VERSION}`,
       caution: CAUTION,
-      non_target_call: k === 0 ? '' : (v.reader.nonTarget ?? ''),
-      outside_liver: k === 0 ? '' : v.reader.outsideLiver,
+      non_target_call: k === 0 ? '' : (v.readerCalls.nonTarget ?? ''),
+      outside_liver: k === 0 ? '' : v.readerCalls.outsideLiver,
       best_response: k === f.visits.length - 1 ? bestResponseText(f.bestResponse) : '',
       progression_date: f.bestResponse.progression?.date ?? '',
     };

@@ -96,7 +96,7 @@ describe('falciform followup', () => {
     expect(v2.response.changeFromBaselinePct).toBeLessThan(-30);
     expect(v2.response.targetCategory).toBe('PR');
     expect(v2.equivocalNewLesions).toEqual(['T3']);
-    expect(v2.reader.outsideLiver).toBe('not-assessed');
+    expect(v2.readerCalls.outsideLiver).toBe('not-assessed');
     expect(v2.response.category).toBe('PR');
     expect(doc.scope).toMatch(/assesses the liver/);
     expect(doc.bestResponse).toMatchObject({ category: 'PR', progression: null });
@@ -106,7 +106,7 @@ describe('falciform followup', () => {
     expect(called.stderr).toBe('');
     const v2c = JSON.parse(called.stdout).visits[1];
     expect(v2c.unequivocalNewLesions).toEqual([{ track: 'T3', from: 'reader' }]);
-    expect(v2c.reader.outsideLiver).toBe('none');
+    expect(v2c.readerCalls.outsideLiver).toBe('none');
     expect(v2c.response.category).toBe('PD');
     expect(JSON.parse(called.stdout).bestResponse).toMatchObject({ category: 'PD', progression: { visit: 'v2', date: '2026-03-02' } });
     const t1 = doc.tracks[0];

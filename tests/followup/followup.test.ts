@@ -127,7 +127,7 @@ describe('follow-up of a patient', () => {
     const called = runFollowup(
       [
         visit('v1', '2026-01-01', [lesion('L1', [0, 0, 0], 30, 'V'), lesion('L2', [60, 0, 0], 8, 'IVa')]),
-        visit('v2', '2026-02-01', [lesion('L1', [2, 0, 0], 20, 'VIII'), lesion('L2', [-80, 50, 0], 6, 'VI')], { reader: { newLesions: { L2: 'unequivocal' } } }),
+        visit('v2', '2026-02-01', [lesion('L1', [2, 0, 0], 20, 'VIII'), lesion('L2', [-80, 50, 0], 6, 'VI')], { readerCalls: { newLesions: { L2: 'unequivocal' } } }),
       ],
       { marginMm: 10 },
     );

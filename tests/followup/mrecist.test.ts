@@ -70,7 +70,7 @@ describe('mRECIST through the follow-up', () => {
       visit('v1', '2026-01-10', [lesion('M1', [-60, 10, 0], 40, 32)]),
       visit('v2', '2026-03-10', [lesion('M1', [-60, 10, 1], 38, 12)]),
       // The reader reports no disease outside the liver: without that, CR of the liver is PR (table 1).
-      visit('v3', '2026-05-10', [lesion('M1', [-61, 10, 0], 37, 0)], { reader: { outsideLiver: 'none' } }),
+      visit('v3', '2026-05-10', [lesion('M1', [-61, 10, 0], 37, 0)], { readerCalls: { outsideLiver: 'none' } }),
     ];
     const r = runFollowup(visits, { marginMm: 10, criteria: 'mRECIST' });
     expect(r.criteria).toBe('mRECIST');

@@ -11,7 +11,7 @@ function lesion(id: string, centre: [number, number, number], longestAxialMm: nu
   return { id, centroidMm: centre, segment: 'V', longestAxialMm, volumeMl: null, marginAlert: false };
 }
 function visit(id: string, date: string, lesions: FollowupLesion[], extra: Partial<FollowupVisit> = {}): FollowupVisit {
-  return { id, date, lesions, sliceThicknessMm: 2.5, reader: { outsideLiver: 'none' }, ...extra };
+  return { id, date, lesions, sliceThicknessMm: 2.5, readerCalls: { outsideLiver: 'none' }, ...extra };
 }
 
 describe('a target that coalesces with a non-target (RECIST 1.1 section 4.3.2, lesions that coalesce)', () => {
@@ -66,7 +66,7 @@ describe('a target missing from a mask inside the scanned field', () => {
   it('is 0 mm once the reader confirms it gone (by track id or by its baseline lesion)', () => {
     // 30 + 20 = 50 → 28 + 0 = 28: −44% → PR (section 4.3.1).
     for (const ref of ['T2', 'v1:L2']) {
-      const r = runFollowup(visits({ reader: { outsideLiver: 'none', confirmedGone: [ref] } }), { marginMm: 10 });
+      const r = runFollowup(visits({ readerCalls: { outsideLiver: 'none', confirmedGone: [ref] } }), { marginMm: 10 });
       expect(r.visits[1].unconfirmedGone).toEqual([]);
       expect(r.visits[1].response).toMatchObject({ targetSumMm: 28, changeFromBaselinePct: -44, category: 'PR' });
       expect(targetSumText(r.visits[1].response)).toBe('28.0 mm');
@@ -77,12 +77,12 @@ describe('a target missing from a mask inside the scanned field', () => {
 describe('an equivocal new lesion (RECIST 1.1 section 4.3.5)', () => {
   // "If a new lesion is equivocal, for example because of its small size, continued follow-up will
   // clarify; if confirmed, PD is declared using the date of the initial scan" (from memory).
-  const series = (calls: Partial<Record<string, FollowupVisit['reader']>> = {}) =>
+  const series = (calls: Partial<Record<string, FollowupVisit['readerCalls']>> = {}) =>
     runFollowup(
       [
         visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 30)]),
-        visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 20), lesion('L2', [60, 0, 0], 6)], { reader: { outsideLiver: 'none', ...calls.v2 } }),
-        visit('v3', '2026-04-27', [lesion('L1', [0, 0, 0], 20), lesion('L2', [60, 0, 0], 12)], { reader: { outsideLiver: 'none', ...calls.v3 } }),
+        visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 20), lesion('L2', [60, 0, 0], 6)], { readerCalls: { outsideLiver: 'none', ...calls.v2 } }),
+        visit('v3', '2026-04-27', [lesion('L1', [0, 0, 0], 20), lesion('L2', [60, 0, 0], 12)], { readerCalls: { outsideLiver: 'none', ...calls.v3 } }),
       ],
       { marginMm: 10 },
     );
@@ -120,13 +120,13 @@ describe('an equivocal new lesion (RECIST 1.1 section 4.3.5)', () => {
 
 describe('non-target call and disease outside the liver through the follow-up (RECIST 1.1 tables 1 and 2)', () => {
   it('CR of the liver is PR while the rest of the body is not assessed', () => {
-    const visits = [visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 30)]), visit('v2', '2026-03-02', [], { reader: { confirmedGone: ['T1'] } })];
+    const visits = [visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 30)]), visit('v2', '2026-03-02', [], { readerCalls: { confirmedGone: ['T1'] } })];
     const r = runFollowup(visits, { marginMm: 10 });
-    expect(r.visits[1]).toMatchObject({ overall: 'PR', reader: { outsideLiver: 'not-assessed' } });
+    expect(r.visits[1]).toMatchObject({ overall: 'PR', readerCalls: { outsideLiver: 'not-assessed' } });
     expect(r.visits[1].response).toMatchObject({ targetCategory: 'CR', nonTargetCategory: 'NE' });
-    visits[1].reader = { confirmedGone: ['T1'], outsideLiver: 'none' };
+    visits[1].readerCalls = { confirmedGone: ['T1'], outsideLiver: 'none' };
     expect(runFollowup(visits, { marginMm: 10 }).visits[1].overall).toBe('CR');
-    visits[1].reader = { confirmedGone: ['T1'], outsideLiver: 'progression' };
+    visits[1].readerCalls = { confirmedGone: ['T1'], outsideLiver: 'progression' };
     expect(runFollowup(visits, { marginMm: 10 }).visits[1].overall).toBe('PD');
     expect(r.scope).toBe('Falciform assesses the liver; non-target calls and disease outside the liver are taken from the reader.');
   });
@@ -134,7 +134,7 @@ describe('non-target call and disease outside the liver through the follow-up (R
   it("a reader's non-target call replaces what the masks show", () => {
     // The 8 mm non-target is missing from v2's mask; without a call it is not evaluable.
     const base = visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 30), lesion('L2', [60, 0, 0], 8)]);
-    const v2 = (reader: FollowupVisit['reader']) => visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 29)], { reader });
+    const v2 = (reader: FollowupVisit['readerCalls']) => visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 29)], { readerCalls: reader });
     expect(runFollowup([base, v2({ outsideLiver: 'none' })], { marginMm: 10 }).visits[1].response.nonTargetCategory).toBe('NE');
     expect(runFollowup([base, v2({ outsideLiver: 'none', nonTarget: 'absent' })], { marginMm: 10 }).visits[1].response.nonTargetCategory).toBe('CR');
     expect(runFollowup([base, v2({ outsideLiver: 'none', nonTarget: 'unequivocal-progression' })], { marginMm: 10 }).visits[1]).toMatchObject({
@@ -146,9 +146,9 @@ describe('non-target call and disease outside the liver through the follow-up (R
 describe('target present but too small to measure', () => {
   it('is 5 mm only on the reader\'s mark; otherwise its measured value', () => {
     // Source: RECIST 1.1 section 4.3.2 (from memory).
-    const visits = (reader: FollowupVisit['reader']) => [
+    const visits = (reader: FollowupVisit['readerCalls']) => [
       visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 20)]),
-      visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 3.4)], { reader }),
+      visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 3.4)], { readerCalls: reader }),
     ];
     expect(runFollowup(visits({ outsideLiver: 'none' }), { marginMm: 10 }).visits[1].response.targets).toEqual([{ track: 'T1', recordedMm: 3.4 }]);
     expect(runFollowup(visits({ outsideLiver: 'none', tooSmall: ['L1'] }), { marginMm: 10 }).visits[1].response.targets).toEqual([{ track: 'T1', recordedMm: 5 }]);

@@ -21,7 +21,7 @@ export const followup: Command = {
     const patient: LoadedPatient = {
       ...loaded,
       manifest,
-      visits: loaded.visits.map((v) => ({ ...v, followup: { ...v.followup, reader: manifest.visits.find((m) => m.id === v.manifest.id)?.reader } })),
+      visits: loaded.visits.map((v) => ({ ...v, followup: { ...v.followup, readerCalls: manifest.visits.find((m) => m.id === v.manifest.id)?.readerCalls } })),
     };
     const result = followupOfPatient(patient);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(patient, result))}\n`);
@@ -83,7 +83,7 @@ function summary(patient: LoadedPatient, r: FollowupResult): string {
 
 /** The reader's calls at a visit and what is waiting for one. */
 function readerLine(v: VisitFollowup): string {
-  const parts = [`reader: non-targets ${v.reader.nonTarget ?? '—'}, outside the liver ${v.reader.outsideLiver}`];
+  const parts = [`reader: non-targets ${v.readerCalls.nonTarget ?? '—'}, outside the liver ${v.readerCalls.outsideLiver}`];
   if (v.equivocalNewLesions.length) parts.push(`equivocal new ${list(v.equivocalNewLesions)} (followed, not PD)`);
   if (v.unconfirmedGone.length) parts.push(`missing, not confirmed gone ${list(v.unconfirmedGone)} (NE)`);
   return parts.join('; ');
