@@ -165,6 +165,7 @@ export async function writeVisit(
     Object.assign(entry, { liver: `${visit.id}/liver.nii.gz`, landmarks: `${visit.id}/landmarks.json`, caudate: `${visit.id}/caudate.nii.gz` });
   }
   if (splitIV) entry.splitIV = true;
+  if (visit.readerCalls) entry.readerCalls = visit.readerCalls;
 
   if (visit.lesionsFrom === 'marks') {
     const marks = present.map((x, m) => {

@@ -4,6 +4,7 @@
  * body in the scanner with its own small rigid motion. Lesion diameters are per visit (0 = gone).
  * Every name, date and number here is made up for the demo.
  */
+import type { VisitReaderCalls } from '../src/followup/reader-calls.js';
 import type { Vec3 } from '../src/geometry/mat4.js';
 
 export interface DemoLesion {
@@ -28,6 +29,8 @@ export interface DemoVisit {
   lesionsFrom: 'mask' | 'labels' | 'marks';
   /** Rigid motion of the body for this visit: rotations about z and x (degrees), translation (mm). */
   motion: { rotZDeg: number; rotXDeg: number; shiftMm: Vec3 };
+  /** The reader's calls written into the manifest (Falciform assesses only the liver). */
+  readerCalls?: VisitReaderCalls;
 }
 
 export interface DemoPatient {
@@ -90,7 +93,9 @@ export const patients: DemoPatient[] = [
     spacingMm: [2.5, 2.5, 5], flipX: true, tiltDeg: 0,
     visits: [
       { id: 'v1', date: '2026-02-02', segmentsFrom: 'landmarks', lesionsFrom: 'mask', motion: { rotZDeg: 0, rotXDeg: 0, shiftMm: [0, 0, 0] } },
-      { id: 'v2', date: '2026-04-13', segmentsFrom: 'map', lesionsFrom: 'marks', motion: { rotZDeg: -3, rotXDeg: 1, shiftMm: [-7, 2, 8] } },
+      // The reader's staging finds no disease outside the liver: without that call a complete response
+      // of the liver is PR (RECIST 1.1 table 1, non-targets not all evaluated), and the story is a CR.
+      { id: 'v2', date: '2026-04-13', segmentsFrom: 'map', lesionsFrom: 'marks', motion: { rotZDeg: -3, rotXDeg: 1, shiftMm: [-7, 2, 8] }, readerCalls: { outsideLiver: 'none' } },
       { id: 'v3', date: '2026-07-06', segmentsFrom: 'landmarks', lesionsFrom: 'marks', motion: { rotZDeg: 2.5, rotXDeg: -2, shiftMm: [4, -6, -10] } },
       { id: 'v4', date: '2026-10-05', segmentsFrom: 'map', lesionsFrom: 'mask', motion: { rotZDeg: -1, rotXDeg: 0.5, shiftMm: [8, 4, 6] } },
     ],

@@ -30,6 +30,7 @@ export async function storedPatient(db: FalciformDb, patientId: string): Promise
     criteria: patient.criteria,
     targets: patient.targets?.length ? patient.targets : undefined,
     resection: patient.resection,
+    protocol: patient.protocol,
     treatments: treatments.map(({ date, kind, label }) => ({ date, kind, label })),
     visits: visits.map((v) => {
       // A stored file's manifest path; none where the visit has no such file.
@@ -49,6 +50,7 @@ export async function storedPatient(db: FalciformDb, patientId: string): Promise
         marks: input('marks'),
         viable: volume('viable'),
         note: v.note || undefined,
+        readerCalls: v.readerCalls,
       });
     }),
   });

@@ -240,6 +240,7 @@ async function planPatient(
     criteria: manifest.criteria,
     targets: manifest.targets,
     resection: manifest.resection,
+    protocol: manifest.protocol,
     createdAt: now,
     importedFrom: source,
   });
@@ -297,6 +298,7 @@ async function planPatient(
       splitIV: visit.splitIV,
       note: visit.note,
       dicom: dicomFacts,
+      readerCalls: visit.readerCalls,
     });
     plan.visits.push({ ...record, storedBytes: visitStoredBytes(record, volumes, inputs) });
     plan.volumes.push(...volumes);

@@ -1,5 +1,5 @@
 import { badInput } from '../../src/errors.js';
-import { MAX_TARGETS_PER_ORGAN } from '../../src/followup/recist.js';
+import { checkTargetCount } from '../../src/followup/recist.js';
 import type { JsonValue, OverrideRecord, PatientRecord } from '../../src/model/records.js';
 import type { FalciformDb } from './db.js';
 import { recordEdit, updatePatient } from './patients.js';
@@ -73,10 +73,8 @@ export async function removeOverride(db: FalciformDb, patientId: string, overrid
  * measurable lesions). RECIST 1.1 takes at most two per organ and the liver is one organ.
  */
 export async function setTargets(db: FalciformDb, patientId: string, targets: readonly string[]): Promise<PatientRecord> {
-  if (targets.length > MAX_TARGETS_PER_ORGAN) {
-    throw badInput('targets', `${targets.length} chosen; RECIST 1.1 takes at most ${MAX_TARGETS_PER_ORGAN} per organ, and the liver is one organ`);
-  }
-  if (new Set(targets).size !== targets.length) throw badInput('targets', 'names a track more than once');
+  // The same rule the command line applies to a manifest's targets.
+  checkTargetCount(targets);
   for (const t of targets) if (!/^T\d+$/.test(t)) throw badInput('targets', `${t} is not a lesion track`);
   return updatePatient(db, patientId, { targets: targets.length > 0 ? [...targets] : undefined });
 }

@@ -9,10 +9,13 @@ import { alignVisit, referenceAlignment, type Alignment, type AlignmentMethod } 
 import { burdenBySegment, type BurdenRow } from './burden.js';
 import { compareIds } from './ids.js';
 import { describeLiver, insideGrid, type LiverShape } from './liver-shape.js';
-import { mrecistTargetCategory, selectViableTargets, viableFromComponents, type ViableComponent } from './mrecist.js';
+import { bestOverallResponse, type BestResponse } from './best-response.js';
+import { mrecistNewLesionCounts, mrecistTargetCategory, selectViableTargets, viableFromComponents, type ViableComponent } from './mrecist.js';
+import { protocolDepartures, withProtocolDefaults, type ResponseProtocol } from './protocol.js';
+import { LIVER_SCOPE_STATEMENT, type NewLesionCall, type VisitReaderCalls } from './reader-calls.js';
 import {
   isMeasurable,
-  MAX_TARGETS_PER_ORGAN,
+  checkTargetCount,
   nonTargetCategory,
   round1,
   selectTargets,
@@ -21,6 +24,7 @@ import {
   type TargetObservation,
 } from './recist.js';
 import { responseSeries, type Criteria, type VisitResponse } from './response.js';
+import { isMarginAlert } from '../lesions/margin.js';
 import { buildTracks, type LinkHow, type Override, type Track, type TrackStatus } from './tracks.js';
 
 /**
@@ -63,8 +67,10 @@ export interface FollowupVisit {
   sliceThicknessMm: number;
   /** Components of a viable-tumour mask, in this visit's world space, for mRECIST. */
   viable?: { components: readonly ViableComponent[] };
-  /** A reader judged the non-target disease to have progressed unequivocally at this visit. */
+  /** A reader judged the non-target disease to have progressed unequivocally at this visit (as `reader.nonTarget`). */
   nonTargetProgression?: boolean;
+  /** The reader's calls at this visit. */
+  readerCalls?: VisitReaderCalls;
 }
 
 export interface FollowupOptions {
@@ -73,6 +79,8 @@ export interface FollowupOptions {
   overrides?: readonly Override[];
   marginMm: number;
   criteria?: Criteria;
+  /** Protocol settings of the response rules; defaults follow the published text. */
+  protocol?: Partial<ResponseProtocol>;
 }
 
 export interface VisitAlignmentSummary {
@@ -92,7 +100,15 @@ export interface VisitFollowup {
   overall: OverallCategory | null;
   nonTarget: { category: NonTargetCategory | null; tracks: string[]; readerProgression: boolean };
   newLesions: string[];
+  /** Tracks first seen after baseline, present here and unequivocally new (PD), with where the call came from. */
+  unequivocalNewLesions: { track: string; from: 'reader' | 'size' }[];
+  /** Tracks first seen after baseline, present here and still equivocal: followed, not PD. */
+  equivocalNewLesions: string[];
   goneLesions: string[];
+  /** Of `goneLesions`, those a reader has not confirmed gone: their targets are NE, not 0 mm. */
+  unconfirmedGone: string[];
+  /** The reader's calls at this visit, as given (outside the liver: 'not-assessed' when not given). */
+  readerCalls: Required<Pick<VisitReaderCalls, 'outsideLiver'>> & VisitReaderCalls;
   notEvaluable: string[];
   marginAlerts: string[];
   alignment: VisitAlignmentSummary;
@@ -119,6 +135,13 @@ export interface FollowupResult {
   criteria: Criteria;
   marginMm: number;
   targets: { tracks: string[]; source: 'named' | 'default' };
+  /** Best overall response under the primary criteria, with confirmation and the date of progression. */
+  bestResponse: BestResponse;
+  protocol: ResponseProtocol;
+  /** Protocol settings that differ from the published rules, in words. */
+  departures: string[];
+  /** What Falciform assesses and what it takes from the reader. */
+  scope: string;
   visits: VisitFollowup[];
   tracks: TrackSummary[];
   burden: BurdenRow[];
@@ -132,9 +155,11 @@ export const UNALIGNED_SLACK_MM = 20;
 export const RESIDUAL_SLACK_FACTOR = 2;
 
 export const FOLLOWUP_NOTES = [
+  LIVER_SCOPE_STATEMENT,
   'Non-target progression ("unequivocal progression", RECIST 1.1) is a reader\'s judgement: it is PD here only when a reader flags it.',
-  'Every lesion first seen after baseline counts as a new lesion (PD); a reader can link it to an existing track instead.',
-  'Targets present but measured under 5 mm are recorded as 5 mm (too small to measure); vanished or merged targets as 0 mm.',
+  'A lesion first seen after baseline is a new lesion (PD) when unequivocal: by the reader\'s call, else by its size (protocol setting); an equivocal one is followed, and once confirmed progression dates from its first detection.',
+  'Targets are recorded as measured, also under 5 mm; 5 mm only when a reader marks one present but too small to measure. A target missing from a mask is NE until a reader confirms it gone (then 0 mm).',
+  'A target that coalesces with another lesion is recorded with the coalesced lesion\'s longest diameter.',
 ];
 
 export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptions): FollowupResult {
@@ -227,37 +252,107 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     : [];
   const primaryTargets = criteria === 'mRECIST' ? mrecistTargets : recistTargets;
 
-  // Non-target state and new lesions per visit (shared by both criteria).
+  const protocol = withProtocolDefaults(opts.protocol);
+  const visitIndex = new Map(visits.map((v, k) => [v.id, k]));
+  const calls = visits.map((v) => v.readerCalls ?? {});
+  // "T3", or "v1:L2" for the track holding L2 at v1.
+  const resolveTrack = (ref: string): Track | undefined => {
+    const colon = ref.indexOf(':');
+    if (colon < 0) return trackById.get(ref);
+    const k = visitIndex.get(ref.slice(0, colon));
+    const lesion = ref.slice(colon + 1);
+    return k === undefined ? undefined : tracks.find((t) => t.visits[k]?.lesions.includes(lesion));
+  };
+  const confirmedGone = calls.map((c, k) => {
+    const set = new Set<string>();
+    for (const ref of c.confirmedGone ?? []) {
+      const t = resolveTrack(ref);
+      if (t) set.add(t.id);
+      else warnings.push(`visit ${visits[k].id}: the reader's "confirmed gone" names ${ref}, which is no lesion track; ignored`);
+    }
+    return set;
+  });
+  const tooSmall = calls.map((c) => new Set(c.tooSmall ?? []));
+  // A track absent from a visit's mask inside the scanned field may be a missed segmentation: gone
+  // only once a reader confirms it.
+  const goneConfirmed = (t: Track, k: number) => t.visits[k]?.status === 'gone' && confirmedGone[k].has(t.id);
+
+  // Non-target state per visit (shared by both criteria). Under mRECIST a non-target that no longer
+  // enhances counts as gone (non-target CR is loss of enhancement in all of them).
   const nonTargetTracks = (targets: readonly string[]) => baselineTracks.filter((t) => !targets.includes(t.id));
-  const nonTargetSeries = (targets: readonly string[]): NonTargetCategory[] =>
+  const nonTargetSeries = (targets: readonly string[], mrecistRule: boolean): NonTargetCategory[] =>
     visits.map((v, k) => {
       const nts = nonTargetTracks(targets);
-      const status = nts.map((t) => t.visits[k]!.status);
+      let present = 0, notEvaluable = 0;
+      for (const t of nts) {
+        const s = t.visits[k]!.status;
+        // A non-target merged into another lesion persists inside it.
+        if (s === 'merged' || (s === 'present' && !(mrecistRule && viableAt(t, k) === 0))) present++;
+        else if (s === 'not-evaluable' || (s === 'gone' && !goneConfirmed(t, k))) notEvaluable++;
+      }
       return nonTargetCategory({
         total: nts.length,
-        // A non-target merged into another lesion persists inside it.
-        present: status.filter((s) => s === 'present' || s === 'merged').length,
-        notEvaluable: status.filter((s) => s === 'not-evaluable').length,
+        present,
+        notEvaluable,
         readerProgression: v.nonTargetProgression === true,
+        call: calls[k].nonTarget,
+        outsideLiver: calls[k].outsideLiver,
       });
     });
-  // A lesion first seen after baseline stays a new lesion at every later visit where it is present:
-  // it was never part of the baseline burden, so it keeps the response at PD (RECIST 1.1 new-lesion rule).
-  const newLesion = visits.map((_, k) => k > 0 && tracks.some((t) => t.firstVisit > 0 && t.firstVisit <= k && t.visits[k]?.status === 'present'));
 
-  const observe = (t: Track, k: number, value: (t: Track, k: number) => number | null): TargetObservation => {
-    const s = t.visits[k]!.status;
-    if (s === 'not-evaluable') return { kind: 'not-evaluable' };
-    if (s !== 'present') return { kind: 'vanished' };
-    const x = value(t, k);
+  // New lesions (RECIST 1.1 section 4.3.5, from memory): a lesion first seen after baseline is PD
+  // when unequivocal. The reader's call at the visit decides; a call of "unequivocal" holds at later
+  // visits; without a call, size decides (protocol `equivocalNewBelowMm`; under mRECIST also
+  // enhancement). Once unequivocal, it stays a new lesion at every later visit where it is present.
+  const newCall = (t: Track, k: number): { call: NewLesionCall; from: 'reader' | 'size' } => {
+    const own = t.visits[k]?.lesions ?? [];
+    const said = own.map((id) => calls[k].newLesions?.[id]).find((c) => c !== undefined);
+    if (said) return { call: said, from: 'reader' };
+    for (let j = k - 1; j >= t.firstVisit; j--) {
+      const earlier = t.visits[j]?.lesions ?? [];
+      if (earlier.some((id) => calls[j].newLesions?.[id] === 'unequivocal')) return { call: 'unequivocal', from: 'reader' };
+    }
+    const size = measuredAt(t, k);
+    const big = size >= protocol.equivocalNewBelowMm - 1e-6;
+    const counts = criteria === 'mRECIST' ? big && mrecistNewLesionCounts(size, viableAt(t, k)) : big;
+    return { call: counts ? 'unequivocal' : 'equivocal', from: 'size' };
+  };
+  const newTracksAt = (k: number) => (k === 0 ? [] : tracks.filter((t) => t.firstVisit > 0 && t.firstVisit <= k && t.visits[k]?.status === 'present'));
+  const unequivocalAt = visits.map((_, k) =>
+    newTracksAt(k)
+      .map((t) => ({ t, c: newCall(t, k) }))
+      .filter((x) => x.c.call === 'unequivocal' || visits.slice(x.t.firstVisit, k).some((__, j) => newCall(x.t, x.t.firstVisit + j).call === 'unequivocal')),
+  );
+  const newLesion = unequivocalAt.map((u) => u.length > 0);
+
+  // The diameter observed for a target. A target that has coalesced with a non-target is recorded
+  // with the coalesced lesion's longest diameter (RECIST 1.1 section 4.3.2, lesions that coalesce,
+  // from memory), by the first target of the group in target order; if the lesion it joined is
+  // itself a target, that target carries it and this one is 0 mm.
+  const observe = (targets: readonly string[], id: string, k: number, value: (t: Track, k: number) => number | null): TargetObservation => {
+    const t = trackById.get(id)!;
+    const at = t.visits[k]!;
+    if (at.status === 'not-evaluable') return { kind: 'not-evaluable' };
+    if (at.status === 'gone') return goneConfirmed(t, k) ? { kind: 'vanished' } : { kind: 'not-evaluable' };
+    const holder = at.status === 'merged' ? trackById.get(at.mergedInto!)! : t;
+    if (at.status === 'merged') {
+      if (targets.includes(holder.id)) return { kind: 'vanished' };
+      const first = targets.find((other) => {
+        const o = trackById.get(other)!.visits[k];
+        return o?.status === 'merged' && o.mergedInto === holder.id;
+      });
+      if (first !== id) return { kind: 'vanished' };
+    }
+    if ((holder.visits[k]?.lesions ?? []).some((l) => tooSmall[k].has(l))) return { kind: 'too-small' };
+    const x = value(holder, k);
     if (x === null) return { kind: 'not-evaluable' };
     return { kind: 'measured', longestMm: x };
   };
   const recist = responseSeries({
     criteria: 'RECIST 1.1',
     targets: recistTargets,
-    observations: visits.map((_, k) => recistTargets.map((id) => observe(trackById.get(id)!, k, measuredAt))),
-    nonTarget: nonTargetSeries(recistTargets),
+    observations: visits.map((_, k) => recistTargets.map((id) => observe(recistTargets, id, k, measuredAt))),
+    nonTarget: nonTargetSeries(recistTargets, false),
     newLesion,
   });
   const mrecist = hasViableBaseline
@@ -266,14 +361,14 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
         targets: mrecistTargets,
         observations: visits.map((_, k) =>
           mrecistTargets.map((id) => {
-            const o = observe(trackById.get(id)!, k, viableAt);
+            const o = observe(mrecistTargets, id, k, viableAt);
             // No viable tumour left in a present lesion is a vanished target for mRECIST.
             return o.kind === 'measured' && o.longestMm <= 0 ? { kind: 'vanished' } : o;
           }),
         ),
-        nonTarget: nonTargetSeries(mrecistTargets),
+        nonTarget: nonTargetSeries(mrecistTargets, true),
         newLesion,
-        categorise: mrecistTargetCategory,
+        categorise: (s) => mrecistTargetCategory(s, protocol.mrecistPdFloorMm),
       })
     : null;
   if (hasViableBaseline && mrecistTargets.length === 0) warnings.push('mRECIST: no measurable lesion with viable tumour at baseline to serve as target');
@@ -285,20 +380,36 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     const otherResponses = criteria === 'mRECIST' ? [recist[k]] : mrecist ? [mrecist[k]] : [];
     const withStatus = (s: TrackStatus) => tracks.filter((t) => t.visits[k]?.status === s).map((t) => t.id);
     const a = alignments[k];
+    const unequivocal = unequivocalAt[k].map((x) => ({ track: x.t.id, from: x.c.from }));
     return {
       id: v.id,
       date: v.date,
       response: primary,
       otherResponses,
       overall: primary.category,
-      nonTarget: { category: primary.nonTargetCategory, tracks: primaryNonTarget, readerProgression: v.nonTargetProgression === true },
+      nonTarget: { category: primary.nonTargetCategory, tracks: primaryNonTarget, readerProgression: v.nonTargetProgression === true || calls[k].nonTarget === 'unequivocal-progression' },
       newLesions: k > 0 ? tracks.filter((t) => t.firstVisit === k).map((t) => t.id) : [],
+      unequivocalNewLesions: unequivocal,
+      equivocalNewLesions: newTracksAt(k).map((t) => t.id).filter((id) => !unequivocal.some((u) => u.track === id)),
       goneLesions: withStatus('gone'),
+      unconfirmedGone: tracks.filter((t) => t.visits[k]?.status === 'gone' && !goneConfirmed(t, k)).map((t) => t.id),
+      readerCalls: { ...calls[k], outsideLiver: calls[k].outsideLiver ?? 'not-assessed' },
       notEvaluable: withStatus('not-evaluable'),
       marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => belowMargin(l, opts.marginMm))).map((t) => t.id),
       alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
     };
   });
+
+  // Best overall response. A PD made by a new lesion that was equivocal when first seen dates from
+  // that first detection.
+  const bestResponse = bestOverallResponse(
+    outVisits.map((v, k) => {
+      const firsts = unequivocalAt[k].map((x) => x.t.firstVisit).filter((f) => f < k);
+      const from = firsts.length > 0 && v.overall === 'PD' && newLesion[k] && (k === 0 || !newLesion[k - 1]) ? Math.min(...firsts) : null;
+      return { visit: v.id, date: v.date, category: v.overall, ...(from !== null ? { progressionFrom: { visit: visits[from].id, date: visits[from].date } } : {}) };
+    }),
+    protocol,
+  );
 
   const outTracks = tracks.map((t) => summariseTrack(t, visits, lesionsAt, viable.some((m) => m !== null) ? viableAt : null, primaryTargets));
 
@@ -306,6 +417,10 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     criteria,
     marginMm: opts.marginMm,
     targets: { tracks: primaryTargets, source: named ? 'named' : 'default' },
+    bestResponse,
+    protocol,
+    departures: protocolDepartures(protocol),
+    scope: LIVER_SCOPE_STATEMENT,
     visits: outVisits,
     tracks: outTracks,
     burden: burdenBySegment(visits.map((v) => ({ id: v.id, lesions: v.lesions }))),
@@ -317,7 +432,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
 /** A margin alert under the patient's margin (a lesion without a measured margin keeps its own flag). */
 export function belowMargin(l: { marginMm?: number | null; marginAlert: boolean }, marginMm: number): boolean {
   if (l.marginMm === undefined) return l.marginAlert;
-  return l.marginMm !== null && l.marginMm < marginMm;
+  return isMarginAlert(l.marginMm, marginMm);
 }
 
 function validateNamedTargets(
@@ -337,10 +452,7 @@ function validateNamedTargets(
       warnings.push(`target ${id} is not measurable at baseline (${round1(measured(t))} mm); RECIST 1.1 takes measurable lesions as targets`);
     }
   }
-  if (new Set(named).size !== named.length) throw badInput('targets', 'names a track more than once');
-  if (named.length > MAX_TARGETS_PER_ORGAN) {
-    warnings.push(`${named.length} targets named; RECIST 1.1 takes at most ${MAX_TARGETS_PER_ORGAN} per organ, and the liver is one organ`);
-  }
+  checkTargetCount(named);
 }
 
 function summariseTrack(

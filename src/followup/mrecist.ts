@@ -1,28 +1,35 @@
 import type { Vec3 } from '../geometry/mat4.js';
 import { distance } from '../geometry/vec3.js';
-import { PD_MIN_INCREASE_MM, selectTargets, targetCategory, type TargetCandidate, type TargetCategory, type TargetSums } from './recist.js';
+import { MEASURABLE_MIN_MM, selectTargets, targetCategory, type TargetCandidate, type TargetCategory, type TargetSums } from './recist.js';
 
 /**
  * mRECIST for hepatocellular carcinoma (Lencioni and Llovet, Semin Liver Dis 2010;30:52-60): the
  * RECIST arithmetic applied to the longest diameter of viable tumour — the part that enhances in the
  * arterial phase — so necrosis after ablation or embolisation counts as response.
  *
- * - Targets: measurable lesions (RECIST size rule on the whole lesion) that show viable tumour at
- *   baseline, largest viable diameter first, at most two in the liver.
+ * - Targets: measurable lesions (RECIST size rule on the whole lesion) whose viable part is itself
+ *   measurable (at least 10 mm; "can be accurately measured in at least one dimension as 1 cm or more
+ *   and shows intratumoral arterial enhancement", from memory), largest viable diameter first, at most
+ *   two in the liver. A tiny enhancing focus in a large necrotic lesion does not make it a target.
  * - CR: no viable tumour left in any target; PR: viable sum at least 30% under baseline; PD: at
- *   least 20% over the smallest viable sum so far. The 2010 paper's PD wording (from memory) gives
- *   no absolute floor; Falciform keeps RECIST 1.1's 5 mm floor so both criteria share one set of
- *   thresholds — MRECIST_PD_MIN_INCREASE_MM is the one place to change that.
+ *   least 20% over the smallest viable sum so far, with no absolute floor as published; a protocol may
+ *   add one (`mrecistPdFloorMm`), and that is then named as a departure.
+ * - Non-target CR: loss of arterial enhancement in every non-target, so a present non-target with no
+ *   viable tumour counts as gone.
+ * - New intrahepatic lesion: counts when at least 1 cm and enhancing (the typical vascular pattern);
+ *   smaller or non-enhancing ones are equivocal until they reach 1 cm or a reader calls them.
  * - Viable diameters come from marks (`viableAxialMm`) or from a viable-tumour mask, whose connected
  *   components are given to the lesion whose extent holds them (the longest viable focus counts).
  */
 
-export const MRECIST_PD_MIN_INCREASE_MM = PD_MIN_INCREASE_MM;
+/** Least viable diameter of an mRECIST target, and of a new lesion that counts (mm). */
+export const MRECIST_MIN_VIABLE_MM = MEASURABLE_MIN_MM;
 /** A viable focus may sit this far outside its lesion's measured extent (mask edges, partial volume). */
 export const VIABLE_TOLERANCE_MM = 3;
 
-export function mrecistTargetCategory(s: TargetSums): TargetCategory {
-  return targetCategory(s, MRECIST_PD_MIN_INCREASE_MM);
+/** mRECIST target category: RECIST arithmetic on viable sums; `pdFloorMm` null is the published rule. */
+export function mrecistTargetCategory(s: TargetSums, pdFloorMm: number | null = null): TargetCategory {
+  return targetCategory(s, pdFloorMm ?? 0);
 }
 
 export interface ViableCandidate extends TargetCandidate {
@@ -30,11 +37,19 @@ export interface ViableCandidate extends TargetCandidate {
   viableMm: number | null;
 }
 
-/** Default mRECIST targets: measurable, with viable tumour, largest viable diameter first. */
+/** Default mRECIST targets: measurable, with a measurable viable part, largest viable diameter first. */
 export function selectViableTargets(candidates: readonly ViableCandidate[]): string[] {
   return selectTargets(
-    candidates.map((c) => ({ id: c.id, longestMm: c.viableMm ?? 0, measurable: c.measurable && (c.viableMm ?? 0) > 0 })),
+    candidates.map((c) => ({ id: c.id, longestMm: c.viableMm ?? 0, measurable: c.measurable && (c.viableMm ?? 0) >= MRECIST_MIN_VIABLE_MM - 1e-6 })),
   );
+}
+
+/**
+ * Whether a new lesion counts under mRECIST without a reader's call: at least 1 cm and enhancing.
+ * With no viable measure at the visit the enhancement is unknown and size alone decides.
+ */
+export function mrecistNewLesionCounts(longestMm: number, viableMm: number | null): boolean {
+  return longestMm >= MRECIST_MIN_VIABLE_MM - 1e-6 && (viableMm === null || viableMm > 0);
 }
 
 export interface ViableComponent {

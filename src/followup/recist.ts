@@ -1,3 +1,4 @@
+import { badInput } from '../errors.js';
 import { roundTo } from '../rounding.js';
 
 /**
@@ -43,6 +44,17 @@ export function isMeasurable(longestMm: number, sliceThicknessMm: number): boole
   return longestMm >= measurableMinMm(sliceThicknessMm) - EPS_MM;
 }
 
+/**
+ * The one target-count rule for the command line and the app: more than two named targets in the
+ * liver is refused (section 4.2, at most two per organ, from memory; the liver is one organ).
+ */
+export function checkTargetCount(targets: readonly string[]): void {
+  if (targets.length > MAX_TARGETS_PER_ORGAN) {
+    throw badInput('targets', `${targets.length} named; RECIST 1.1 takes at most ${MAX_TARGETS_PER_ORGAN} per organ, and the liver is one organ`);
+  }
+  if (new Set(targets).size !== targets.length) throw badInput('targets', 'names a track more than once');
+}
+
 export interface TargetCandidate {
   id: string;
   longestMm: number;
@@ -65,19 +77,21 @@ export function selectTargets(candidates: readonly TargetCandidate[], max = MAX_
 /** What is known about one target at one visit. */
 export type TargetObservation =
   | { kind: 'measured'; longestMm: number }
+  /** A reader marked it present but too small to measure. */
+  | { kind: 'too-small' }
   | { kind: 'vanished' }
   | { kind: 'not-evaluable' };
 
 /**
- * The diameter recorded for a target (section 4.3.2): a vanished one 0 mm; one present but under
- * 5 mm counts as "too small to measure", 5 mm — an automatic measure under 5 mm rests on a few
- * voxels and is not a measurement a reader would record; otherwise the measurement to 0.1 mm;
- * null when not evaluable.
+ * The diameter recorded for a target (section 4.3.2, "target lesions that become too small to
+ * measure", from memory): a measurement is recorded as measured, even under 5 mm; 5 mm is the default
+ * only for a lesion a reader judges present but too small to measure; a vanished one 0 mm; null when
+ * not evaluable.
  */
 export function recordedTargetMm(o: TargetObservation): number | null {
   if (o.kind === 'not-evaluable') return null;
   if (o.kind === 'vanished') return 0;
-  if (o.longestMm < TOO_SMALL_RECORDED_MM) return TOO_SMALL_RECORDED_MM;
+  if (o.kind === 'too-small') return TOO_SMALL_RECORDED_MM;
   return round1(o.longestMm);
 }
 
@@ -130,24 +144,49 @@ export function targetCategory(s: TargetSums, minIncreaseMm = PD_MIN_INCREASE_MM
   return 'SD';
 }
 
+/** A reader's call on the non-target lesions at a visit (RECIST 1.1 section 4.3.3, from memory). */
+export type NonTargetCall = 'present' | 'absent' | 'unequivocal-progression';
+/** A reader's assessment of disease outside the liver at a visit; Falciform assesses only the liver. */
+export type OutsideLiverCall = 'none' | 'not-assessed' | 'stable' | 'progression';
+export const NON_TARGET_CALLS: readonly NonTargetCall[] = ['present', 'absent', 'unequivocal-progression'];
+export const OUTSIDE_LIVER_CALLS: readonly OutsideLiverCall[] = ['none', 'not-assessed', 'stable', 'progression'];
+
 export interface NonTargetState {
-  /** Non-target lesions recorded at baseline. */
+  /** Non-target liver lesions recorded at baseline. */
   total: number;
   /** Of those, seen at this visit. */
   present: number;
-  /** Of those, not assessable at this visit (outside the scanned field). */
+  /** Of those, not assessable at this visit (outside the scanned field, or missing and not confirmed gone). */
   notEvaluable: number;
   /** A reader has judged the non-target disease to have progressed unequivocally. */
   readerProgression?: boolean;
+  /** The reader's call on the non-target lesions; it replaces the count above when given. */
+  call?: NonTargetCall;
+  /** Disease outside the liver; undefined counts as not assessed. */
+  outsideLiver?: OutsideLiverCall;
 }
 
+const NON_TARGET_RANK: Record<NonTargetCategory, number> = { PD: 4, 'non-CR/non-PD': 3, NE: 2, CR: 1, none: 0 };
+
 /**
- * Non-target response (sections 4.3.3 and 4.3.4): CR when all have gone; non-CR/non-PD while any persists;
- * PD only on a reader's judgement; NE when none is seen but some could not be assessed.
+ * Non-target response (sections 4.3.3 and 4.3.4): CR when all have gone; non-CR/non-PD while any
+ * persists; PD only on a reader's judgement; NE when none is seen but some could not be assessed.
+ * The liver's non-targets and the disease outside the liver (the reader's assessment: 'none' adds
+ * nothing, 'not-assessed' is NE, 'stable' non-CR/non-PD, 'progression' PD) combine as the worse of
+ * the two, in the order PD, non-CR/non-PD, NE, CR — so an unassessed body never allows a CR.
  */
 export function nonTargetCategory(s: NonTargetState): NonTargetCategory {
-  if (s.total === 0) return s.readerProgression ? 'PD' : 'none';
-  if (s.readerProgression) return 'PD';
+  const outside: NonTargetCategory =
+    s.outsideLiver === 'none' ? 'none' : s.outsideLiver === 'stable' ? 'non-CR/non-PD' : s.outsideLiver === 'progression' ? 'PD' : 'NE';
+  const liver = liverNonTarget(s);
+  return NON_TARGET_RANK[outside] > NON_TARGET_RANK[liver] ? outside : liver;
+}
+
+function liverNonTarget(s: NonTargetState): NonTargetCategory {
+  if (s.readerProgression || s.call === 'unequivocal-progression') return 'PD';
+  if (s.call === 'present') return 'non-CR/non-PD';
+  if (s.total === 0) return 'none';
+  if (s.call === 'absent') return 'CR';
   if (s.present > 0) return 'non-CR/non-PD';
   return s.notEvaluable > 0 ? 'NE' : 'CR';
 }

@@ -9,6 +9,7 @@ import {
   type OverallCategory,
   type TargetCategory,
   type TargetObservation,
+  type TargetSums,
 } from './recist.js';
 
 /**
@@ -20,7 +21,7 @@ export type Criteria = 'RECIST 1.1' | 'mRECIST';
 
 export interface VisitResponse {
   criteria: Criteria;
-  /** Sum of recorded target diameters (of the evaluable ones when `targetSumComplete` is false). */
+  /** Sum of recorded target diameters (of the evaluable ones when `targetSumComplete` is false: show it as NE, see `targetSumText`). */
   targetSumMm: number;
   targetSumComplete: boolean;
   baselineSumMm: number;
@@ -45,7 +46,7 @@ export interface SeriesInput {
   nonTarget: readonly NonTargetCategory[];
   newLesion: readonly boolean[];
   /** Target category rule (RECIST 1.1's or mRECIST's). */
-  categorise?: typeof targetCategory;
+  categorise?: (s: TargetSums) => TargetCategory;
 }
 
 export function responseSeries(input: SeriesInput): VisitResponse[] {
@@ -71,8 +72,9 @@ export function responseSeries(input: SeriesInput): VisitResponse[] {
       targetSumComplete: complete,
       baselineSumMm: baselineMm,
       nadirSumMm: nadir,
-      changeFromBaselinePct: hasTargets ? percentChange(sumMm, baselineMm) : null,
-      changeFromNadirPct: hasTargets ? percentChange(sumMm, nadir) : null,
+      // An incomplete sum is not a change: a missing target would otherwise read as shrinkage (−100%).
+      changeFromBaselinePct: hasTargets && complete ? percentChange(sumMm, baselineMm) : null,
+      changeFromNadirPct: hasTargets && complete ? percentChange(sumMm, nadir) : null,
       category,
       targetCategory: target,
       nonTargetCategory: k > 0 ? input.nonTarget[k] : null,
@@ -80,4 +82,9 @@ export function responseSeries(input: SeriesInput): VisitResponse[] {
       targets: input.targets.map((track, n) => ({ track, recordedMm: recorded[n] })),
     };
   });
+}
+
+/** The target sum as shown on screens and in exports: NE when a target was not evaluable. */
+export function targetSumText(r: Pick<VisitResponse, 'targetSumMm' | 'targetSumComplete'>): string {
+  return r.targetSumComplete ? `${r.targetSumMm.toFixed(1)} mm` : 'NE';
 }

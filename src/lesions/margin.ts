@@ -19,6 +19,15 @@ export interface MarginResult {
 const NONE: MarginResult = { marginMm: null, nearestOtherSegment: null };
 
 /**
+ * The margin-alert rule, in one place: an alert when the margin is at or within the set margin
+ * (≤), so a lesion touching or spanning a border alerts even at a set margin of 0. The default set
+ * margin of 10 mm is a common surgical rule of thumb (common practice), settable per patient.
+ */
+export function isMarginAlert(marginMm: number | null, setMarginMm: number): boolean {
+  return marginMm !== null && marginMm <= setMarginMm;
+}
+
+/**
  * Margin of a lesion from a mask whose voxels all lie in segment `own` or background (a lesion that
  * spans segments has margin 0 by definition; the caller decides that first): the shortest distance
  * from its voxel centres to a voxel centre of another non-background segment, exact up to `capMm`.

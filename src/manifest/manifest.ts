@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { badFile } from '../errors.js';
+import { NEW_LESION_CALLS } from '../followup/reader-calls.js';
+import { NON_TARGET_CALLS, OUTSIDE_LIVER_CALLS } from '../followup/recist.js';
 import { RESECTION_PRESETS } from '../remnant/resections.js';
 import { SEGMENT_NAMES } from '../segments/segment-map.js';
 
@@ -15,6 +17,24 @@ const isoDate = z.string().refine((s) => {
 
 const relPath = z.string().min(1, 'must name a file');
 const id = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must be 1–64 letters, digits, ".", "_" or "-"');
+
+/** A reader's calls at a visit (src/followup/reader-calls.ts). */
+const readerCalls = z.strictObject({
+  newLesions: z.record(id, z.enum(NEW_LESION_CALLS)).optional(),
+  tooSmall: z.array(id).optional(),
+  confirmedGone: z.array(z.string().regex(/^([A-Za-z0-9][A-Za-z0-9._-]{0,63}:)?[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must name a track as "T1" or "v1:L2"')).optional(),
+  nonTarget: z.enum(NON_TARGET_CALLS).optional(),
+  outsideLiver: z.enum(OUTSIDE_LIVER_CALLS).optional(),
+});
+
+/** Protocol settings of the response rules (src/followup/protocol.ts); all optional. */
+const protocol = z.strictObject({
+  equivocalNewBelowMm: z.number().nonnegative().max(100).optional(),
+  mrecistPdFloorMm: z.number().nonnegative().max(50).nullable().optional(),
+  confirmResponse: z.boolean().optional(),
+  confirmationMinDays: z.number().int().min(1).max(365).optional(),
+  sdMinDays: z.number().int().min(0).max(365).optional(),
+});
 
 const visit = z
   .strictObject({
@@ -39,6 +59,7 @@ const visit = z
     contrastPhase: z.string().min(1).max(64).optional(),
     reader: z.string().min(1).max(120).optional(),
     readDate: isoDate.optional(),
+    readerCalls: readerCalls.optional(),
   })
   .superRefine((v, ctx) => {
     const hasMap = v.segments !== undefined;
@@ -91,6 +112,7 @@ const manifestSchema = z
     targets: z.array(id).max(5).optional(),
     treatments: z.array(treatment).optional(),
     resection: resection.optional(),
+    protocol: protocol.optional(),
   })
   .superRefine((m, ctx) => {
     const seen = new Set<string>();

@@ -1,4 +1,5 @@
-import type { ProposedResection } from '../manifest/manifest.js';
+import type { VisitReaderCalls } from '../followup/reader-calls.js';
+import type { Manifest, ProposedResection } from '../manifest/manifest.js';
 import type { Datatype } from '../volume/volume.js';
 
 /**
@@ -32,6 +33,8 @@ export interface PatientRecord {
   targets?: string[];
   /** The resection proposed at the tumour board (a Brisbane 2000 preset or the segments to remove). */
   resection?: ProposedResection;
+  /** Protocol settings of the response rules (manifest `protocol`). */
+  protocol?: Manifest['protocol'];
   /** ISO time the patient was first stored. */
   createdAt: string;
   /** Folder or file names the patient was imported from, for the nurse's own records. */
@@ -53,6 +56,8 @@ export interface VisitRecord {
   note?: string;
   /** Header facts when the scan was imported from a DICOM series (its voxels are stored as NIfTI). */
   dicom?: DicomVisitFacts;
+  /** The reader's calls at this visit (manifest visit `reader`). */
+  readerCalls?: VisitReaderCalls;
   /** Bytes the visit takes in the store (its records' JSON plus compressed volumes); schema 2 on. */
   storedBytes: number;
 }

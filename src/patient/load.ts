@@ -2,6 +2,7 @@ import { badFile, isFalciformError } from '../errors.js';
 import { describeLiver, type LiverShape } from '../followup/liver-shape.js';
 import { runFollowup, type FollowupResult, type FollowupVisit } from '../followup/followup.js';
 import type { ViableComponent } from '../followup/mrecist.js';
+import type { ResponseProtocol } from '../followup/protocol.js';
 import type { Override } from '../followup/tracks.js';
 import { lesionsFromMask } from '../lesions/components.js';
 import { parseMarks } from '../lesions/marks.js';
@@ -107,6 +108,7 @@ async function loadVisit(
     analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions });
     // Here the segment map and lesion mask are still in hand; later steps keep only plain results.
     volumetry = visitVolumetry(segments, lesionMask ?? (marks && analysis.lesions.filter((l) => l.source === 'mark')));
+    if (visitMap.source === 'built' && v.caudate === undefined) volumetry = { ...volumetry, caudateInPlaneSegments: true };
   } catch (e) {
     // The analysis names inputs by role; the shells need the file.
     if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(files.marks ?? files.lesions ?? manifestPath, `visit ${v.id}: ${e.problem}`);
@@ -134,6 +136,7 @@ async function loadVisit(
     liver,
     sliceThicknessMm,
     viable,
+    ...(v.readerCalls ? { readerCalls: v.readerCalls } : {}),
   };
   return { manifest: v, analysis, volumetry, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
 }
@@ -147,10 +150,16 @@ export function followupOfPatient(patient: LoadedPatient, overrides: readonly Ov
   try {
     return runFollowup(
       patient.visits.map((v) => v.followup),
-      { targets: m.targets, overrides, marginMm: m.marginMm, criteria: m.criteria },
+      { targets: m.targets, overrides, marginMm: m.marginMm, criteria: m.criteria, protocol: protocolSettings(m.protocol) },
     );
   } catch (e) {
     if (isFalciformError(e) && e.kind === 'bad-input') throw badFile(patient.manifestFile, `field ${e.file}: ${e.problem}`);
     throw e;
   }
+}
+
+/** The manifest's protocol settings as runFollowup takes them (an absent field keeps its default). */
+function protocolSettings(p: Manifest['protocol']): Partial<ResponseProtocol> | undefined {
+  if (!p) return undefined;
+  return Object.fromEntries(Object.entries(p).filter(([, v]) => v !== undefined)) as Partial<ResponseProtocol>;
 }

@@ -106,7 +106,11 @@ export function planRemnant(
   const gone = new Set(removedSegments);
   const remnantSegments = present.filter((s) => !gone.has(s));
   if (remnantSegments.length === 0) warnings.push('Every segment in the map is removed; nothing would remain.');
-  if (!present.includes('I')) {
+  if (!present.includes('I') && volumetry.caudateInPlaneSegments) {
+    warnings.push(
+      "Segment I is not separated in this visit's segment map (built from landmarks without a caudate mask): its tissue is counted in the plane segments around it, so their volumes include it; give a caudate mask to separate it.",
+    );
+  } else if (!present.includes('I')) {
     warnings.push("Segment I is not in this visit's segment map: the liver and remnant volumes leave it out, so a remnant that keeps it is understated.");
   }
   if (volumetry.estimated) {

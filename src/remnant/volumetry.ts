@@ -34,6 +34,11 @@ export interface VisitVolumetry {
   estimated: boolean;
   segments: SegmentVolumetry[];
   notes: string[];
+  /**
+   * The map was built from a landmark set without a caudate mask: the plane rule then puts the
+   * caudate's tissue into the plane segments around it, so segment I is absent but its volume is not.
+   */
+  caudateInPlaneSegments?: boolean;
 }
 
 const ESTIMATE_NOTE =

@@ -27,6 +27,7 @@ export function boardSheetHtml(s: BoardSummary): string {
   h.push(`<p class="b-caution" role="note">${esc(s.caution)}</p>`);
   if (s.patient.pseudonymNote) h.push(`<p class="b-pseudonym">${esc(s.patient.pseudonymNote)}</p>`);
   h.push(headline(s));
+  h.push(responseSummaryLines(s));
   h.push(`<div class="b-row">`);
   h.push(
     `<section class="b-col-chart"><h2>Size per lesion track <span class="b-h2-note">longest axial diameter, coloured by segment</span></h2>${sizeChartSvg(s.chart)}</section>`,
@@ -86,6 +87,13 @@ function headline(s: BoardSummary): string {
     `<span class="b-category" data-testid="board-response">${esc(v.response)}</span><span class="b-computed" data-testid="board-computed" title="${esc(COMPUTED_RESPONSE)}">computed, not read</span>` +
     `<span class="b-sub">${esc(sums)}${other}${v.newTracks.length ? ` · new: ${ids(v.newTracks)}` : ''}</span></div>`
   );
+}
+
+/** Best overall response, the liver-only scope and what still waits for a reader's call. */
+function responseSummaryLines(s: BoardSummary): string {
+  const r = s.responseSummary;
+  const parts = [`Best overall response: ${r.best}.`, r.scope, ...(r.departures.length ? [`Protocol: ${r.departures.join('; ')}.`] : []), ...r.pending.slice(-2)];
+  return `<p class="b-left-out" data-testid="board-best-response">${parts.map(esc).join(' ')}</p>`;
 }
 
 function visitsTable(s: BoardSummary): string {

@@ -1,3 +1,4 @@
+import { bestResponseText } from '../followup/best-response.js';
 import { CAUTION } from '../caution.js';
 import { compareIds } from '../followup/ids.js';
 import type { Criteria } from '../followup/response.js';
@@ -143,6 +144,8 @@ export interface BoardSummary {
   marginMm: number;
   targets: { tracks: string[]; source: 'named' | 'default' };
   latest: BoardVisitRow;
+  /** Best overall response in one line, what Falciform assesses, protocol settings, and what waits for a reader. */
+  responseSummary: { best: string; scope: string; departures: string[]; pending: string[] };
   visits: BoardVisitRow[];
   visitsLeftOut: string[];
   lesionTable: {
@@ -318,6 +321,15 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
     marginMm: f.marginMm,
     targets: f.targets,
     latest: visitRows[visitRows.length - 1],
+    responseSummary: {
+      best: bestResponseText(f.bestResponse),
+      scope: f.scope,
+      departures: f.departures,
+      pending: f.visits.flatMap((v) => [
+        ...(v.equivocalNewLesions.length ? [`${v.id}: equivocal new ${v.equivocalNewLesions.join(', ')} (followed, not PD)`] : []),
+        ...(v.unconfirmedGone.length ? [`${v.id}: ${v.unconfirmedGone.join(', ')} missing, not confirmed gone (NE)`] : []),
+      ]),
+    },
     visits: visitsKept.kept,
     visitsLeftOut: visitsKept.left.map((v) => v.id),
     lesionTable: {

@@ -1,5 +1,7 @@
 import { CAUTION } from '../caution.js';
 import type { FollowupResult, TrackSummary } from '../followup/followup.js';
+import { bestResponseText } from '../followup/best-response.js';
+import { isMarginAlert } from '../lesions/margin.js';
 import { roundTo } from '../rounding.js';
 import { SEGMENT_NAMES } from '../segments/segment-map.js';
 import type { LesionResult } from '../visit/analyze.js';
@@ -19,6 +21,7 @@ export const CASE_FORM_COLUMNS = [
   'margin_alert', 'set_margin_mm', 'target', 'new_lesion', 'response', 'criteria', 'target_sum_mm',
   'change_from_baseline_pct', 'change_from_nadir_pct', 'software', 'caution',
   'row_type', 'evaluation', 'response_basis', 'modality', 'contrast_phase', 'slice_thickness_mm', 'reader', 'reading_date',
+  'viable_axial_mm', 'new_lesion_call', 'non_target_call', 'outside_liver', 'best_response', 'progression_date',
 ] as const;
 
 /** On every row beside `response`: the category is worked out from the measurements, not read. */
@@ -49,7 +52,7 @@ export function fractionsText(fractions: LesionResult['segmentFractions']): stri
 /** Every lesion column empty, for a visit's summary row. */
 const NO_LESION = {
   track: '', lesion: '', status: '', source: '', segment: '', segment_fractions: '', longest_axial_mm: '', short_axis_mm: '',
-  volume_ml: '', margin_mm: '', nearest_other_segment: '', target: '',
+  volume_ml: '', margin_mm: '', nearest_other_segment: '', target: '', viable_axial_mm: '', new_lesion_call: '',
 } as const;
 
 /**
@@ -75,13 +78,23 @@ export function caseFormRows(input: ReportInput, patientLabel: string, opts: Cas
       set_margin_mm: decimal(f.marginMm, 2),
       response: k === 0 ? '' : (v.overall ?? ''),
       criteria: f.criteria,
-      target_sum_mm: decimal(r.targetSumMm, 2),
+      // A sum with a target not evaluable is no sum (RECIST 1.1 section 4.4.2): NE, never a smaller number.
+      target_sum_mm: r.targetSumComplete ? decimal(r.targetSumMm, 2) : 'NE',
       change_from_baseline_pct: k === 0 ? '' : decimal(r.changeFromBaselinePct, 1),
       change_from_nadir_pct: k === 0 ? '' : decimal(r.changeFromNadirPct, 1),
       software: `Falciform ${VERSION}`,
       caution: CAUTION,
       response_basis: k === 0 ? '' : RESPONSE_BASIS,
       ...readingFields(manifestVisit.get(v.id), byVisit.get(v.id)?.sliceThicknessMm, opts),
+      non_target_call: k === 0 ? '' : (v.readerCalls.nonTarget ?? ''),
+      outside_liver: k === 0 ? '' : v.readerCalls.outsideLiver,
+      best_response: k === f.visits.length - 1 ? bestResponseText(f.bestResponse) : '',
+      progression_date: f.bestResponse.progression?.date ?? '',
+    };
+    const newCall = (t: TrackSummary | undefined) => {
+      if (!t || k === 0 || t.firstVisit === baseline.id) return '';
+      if (v.unequivocalNewLesions.some((u) => u.track === t.id)) return 'unequivocal';
+      return v.equivocalNewLesions.includes(t.id) ? 'equivocal' : '';
     };
     rows.push({
       ...visitFields,
@@ -108,11 +121,13 @@ export function caseFormRows(input: ReportInput, patientLabel: string, opts: Cas
         margin_mm: decimal(l.marginMm, 2),
         nearest_other_segment: l.nearestOtherSegment ?? '',
         // Against the follow-up's set margin, as the follow-up's own alerts are.
-        margin_alert: yesNo(l.marginMm !== null && l.marginMm < f.marginMm),
+        margin_alert: yesNo(isMarginAlert(l.marginMm, f.marginMm)),
         target: yesNo(t?.target ?? false),
         new_lesion: yesNo(t !== undefined && k > 0 && t.firstVisit === v.id),
         row_type: 'lesion',
         evaluation: 'measured',
+        viable_axial_mm: decimal(t?.viableAxialMm?.[v.id], 1),
+        new_lesion_call: newCall(t),
       });
     }
     for (const t of f.tracks) {
@@ -126,7 +141,8 @@ export function caseFormRows(input: ReportInput, patientLabel: string, opts: Cas
         source: '',
         segment: '',
         segment_fractions: '',
-        longest_axial_mm: status === 'not-evaluable' ? '' : '0',
+        // Missing from the mask but not confirmed gone by a reader: not evaluable, not 0 mm.
+        longest_axial_mm: status === 'not-evaluable' || v.unconfirmedGone.includes(t.id) ? 'NE' : '0',
         short_axis_mm: '',
         volume_ml: '',
         margin_mm: '',
@@ -136,7 +152,9 @@ export function caseFormRows(input: ReportInput, patientLabel: string, opts: Cas
         new_lesion: 'no',
         row_type: 'lesion',
         // RECIST 1.1 records a vanished lesion as 0 mm and one that cannot be assessed as NE.
-        evaluation: status === 'not-evaluable' ? 'NE' : 'absent',
+        evaluation: status === 'not-evaluable' || v.unconfirmedGone.includes(t.id) ? 'NE' : 'absent',
+        viable_axial_mm: '',
+        new_lesion_call: '',
       });
     }
   });

@@ -1,3 +1,4 @@
+import { isMarginAlert } from '../lesions/margin.js';
 import type { FollowupResult } from '../followup/followup.js';
 import { compareIds } from '../followup/ids.js';
 import type { SegmentName } from '../segments/segment-map.js';
@@ -113,7 +114,7 @@ export function placeLesions(f: FollowupResult, visits: readonly DiagramVisit[],
         longestAxialMm: l.longestAxialMm,
         marginMm: l.marginMm,
         nearestOtherSegment: l.nearestOtherSegment,
-        alert: l.marginMm !== null && l.marginMm < f.marginMm,
+        alert: isMarginAlert(l.marginMm, f.marginMm),
         target: summary?.target ?? false,
         isNew: summary !== undefined && visit.id !== baseline && summary.firstVisit === visit.id,
         shares: sharesOf(l),

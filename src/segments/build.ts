@@ -51,6 +51,10 @@ export function buildSegmentMap(
   const M = indexPlane(planes.middleHepatic, A);
   const U = indexPlane(planes.umbilical, A);
   const H = indexPlane(planes.portal, A);
+  const L = indexPlane(planes.leftLateral, A);
+  if (!landmarks.points.left_portal_umbilical) {
+    warnings.push('segments II and III are divided by the main portal plane (an approximation); add left_portal_umbilical (the umbilical part of the left portal vein) to the landmark set to divide them there');
+  }
   // Labels as locals: the loop below then reads no object properties.
   const I = SEGMENT_CODES.I, II = SEGMENT_CODES.II, III = SEGMENT_CODES.III, V = SEGMENT_CODES.V;
   const VI = SEGMENT_CODES.VI, VII = SEGMENT_CODES.VII, VIII = SEGMENT_CODES.VIII;
@@ -71,6 +75,7 @@ export function buildSegmentMap(
       const m0 = M[3] + M[1] * j + M[2] * k, mi = M[0];
       const u0 = U[3] + U[1] * j + U[2] * k, ui = U[0];
       const h0 = H[3] + H[1] * j + H[2] * k, hi = H[0];
+      const l0 = L[3] + L[1] * j + L[2] * k, li = L[0];
       for (let i = 0; i < nx; i++) {
         const n = row + i;
         if (!(data[n] * slope + inter > 0)) continue;
@@ -82,7 +87,7 @@ export function buildSegmentMap(
           if (r0 + ri * i > 0) label = up ? VII : VI;
           else if (m0 + mi * i > 0) label = up ? VIII : V;
           else if (u0 + ui * i > 0) label = up ? IVa : IVb;
-          else label = up ? II : III;
+          else label = l0 + li * i > 0 ? II : III;
         }
         out[n] = label;
         counts[label]++;

@@ -2,7 +2,7 @@ import type { Vec3 } from '../geometry/mat4.js';
 import { badLandmarks } from '../errors.js';
 import { cross, norm, sub } from '../geometry/vec3.js';
 import { describeJsonValue, isJsonObject, parseJsonFile } from '../json-file.js';
-import { ivcAxis, signedDistance, veinPlane } from './planes.js';
+import { ivcAxis, landmarkPlanes, signedDistance } from './planes.js';
 
 /** The six points of a landmark set (world RAS mm), as named in the landmark-set file. */
 export const LANDMARK_NAMES = [
@@ -15,8 +15,14 @@ export const LANDMARK_NAMES = [
 ] as const;
 export type LandmarkName = (typeof LANDMARK_NAMES)[number];
 
+/**
+ * Optional seventh point: the umbilical part of the left portal vein. When given, it sets the plane
+ * dividing II from III in the left lateral section; without it II/III come from the main portal plane.
+ */
+export const OPTIONAL_LANDMARK = 'left_portal_umbilical';
+
 export interface LandmarkSet {
-  points: Record<LandmarkName, Vec3>;
+  points: Record<LandmarkName, Vec3> & { left_portal_umbilical?: Vec3 };
 }
 
 /** Closer IVC points than this give an axis whose direction a 1-mm placement error tilts by over 5°. */
@@ -48,6 +54,11 @@ export function landmarkSetFromJson(json: unknown, file: string, where = ''): La
     else if (!Array.isArray(p) || p.length !== 3 || !p.every((x) => typeof x === 'number')) {
       problems.push(`${name} must be [x, y, z] in mm`);
     } else points[name] = [p[0], p[1], p[2]];
+  }
+  const extra = src[OPTIONAL_LANDMARK];
+  if (extra !== undefined) {
+    if (!Array.isArray(extra) || extra.length !== 3 || !extra.every((x) => typeof x === 'number')) problems.push(`${OPTIONAL_LANDMARK} must be [x, y, z] in mm`);
+    else (points as LandmarkSet['points']).left_portal_umbilical = [extra[0], extra[1], extra[2]];
   }
   if (problems.length > 0) throw badLandmarks(file, at + problems.join('; '));
   return { points };
@@ -92,25 +103,21 @@ export function checkLandmarks(set: LandmarkSet, file: string): void {
         `${v} is ${fromAxis.toFixed(1)} mm from the IVC axis; its plane is undefined (needs at least ${MIN_VEIN_AXIS_DISTANCE_MM} mm)`,
       );
       planesOk = false;
-    } else if (cross(axis, off)[0] === 0) {
-      problems.push(`the plane through the IVC and ${v} faces straight forward, so it has no right side`);
-      planesOk = false;
     }
   }
   if (planesOk) {
-    const order: [LandmarkName, 'left' | 'right', (typeof veins)[number]][] = [
-      ['middle_hepatic_vein', 'left', 'right_hepatic_vein'],
-      ['umbilical_fissure', 'left', 'middle_hepatic_vein'],
-      ['right_hepatic_vein', 'right', 'middle_hepatic_vein'],
-      ['middle_hepatic_vein', 'right', 'umbilical_fissure'],
-    ];
-    const wrong = order.filter(([point, side, planeOf]) => {
-      const d = signedDistance(veinPlane(set, p[planeOf]), p[point]);
-      return side === 'left' ? !(d < 0) : !(d > 0);
-    });
+    // Each vein plane faces away from its medial neighbour (planes.ts); the order then needs checking
+    // only where that does not already fix it, and the one tie to the patient's right (+x, nifti1.h)
+    // is the umbilical-fissure plane, which is far from coronal, so a tilt of the set cannot flip it.
+    const planes = landmarkPlanes(set);
+    const wrong: string[] = [];
+    if (!(signedDistance(planes.middleHepatic, p.right_hepatic_vein) > 0)) wrong.push('right_hepatic_vein is not right of the middle_hepatic_vein plane');
+    if (!(signedDistance(planes.rightHepatic, p.umbilical_fissure) < 0)) wrong.push('umbilical_fissure is not left of the right_hepatic_vein plane');
+    if (!(signedDistance(planes.umbilical, p.right_hepatic_vein) > 0)) wrong.push('right_hepatic_vein is not right of the umbilical_fissure plane');
+    if (!(planes.umbilical.normal[0] > 0)) wrong.push('the umbilical_fissure plane has the middle hepatic vein on the patient\'s left');
     if (wrong.length > 0) {
       problems.push(
-        wrong.map(([point, side, planeOf]) => `${point} is not ${side} of the ${planeOf} plane`).join(', ') +
+        wrong.join(', ') +
           ' (expected right_hepatic_vein, middle_hepatic_vein, umbilical_fissure from the patient\'s right to left, RAS: right is +x)',
       );
     }

@@ -9,16 +9,23 @@ export interface Plane {
 }
 
 /**
- * The four planes of the landmark rule (brief, plane method). Each vertical plane holds both IVC
- * points and one vein point, its normal towards the patient's right (+x in RAS, nifti1.h: +x = Right), so a positive
- * distance means "right of". The portal plane passes through the portal bifurcation with normal
- * along the IVC axis from inferior to superior, so a positive distance means "above".
+ * The planes of the landmark rule (brief, plane method). Each vertical plane holds both IVC points and
+ * one vein point; its normal points to the side of the more lateral section, found from the landmarks
+ * themselves: the right-hepatic-vein plane faces away from the middle hepatic vein, the
+ * middle-hepatic-vein plane away from the umbilical fissure, and the umbilical-fissure plane towards
+ * the middle hepatic vein. So a positive distance means "right of" without asking which way +x points:
+ * the right-hepatic-vein plane is nearly coronal, and a sign taken from its normal's x component flips
+ * under a small rotation. The portal plane passes through the portal bifurcation with normal along the
+ * IVC axis from inferior to superior, so a positive distance means "above". The II/III plane is the
+ * same through the umbilical part of the left portal vein when that point is given, else the portal plane.
  */
 export interface LandmarkPlanes {
   readonly rightHepatic: Plane;
   readonly middleHepatic: Plane;
   readonly umbilical: Plane;
   readonly portal: Plane;
+  /** Divides II (above) from III (below) in the left lateral section. */
+  readonly leftLateral: Plane;
 }
 
 export function signedDistance(plane: Plane, p: Vec3): number {
@@ -30,22 +37,24 @@ export function ivcAxis(set: LandmarkSet): Vec3 {
   return normalise(sub(set.points.ivc_superior, set.points.ivc_inferior));
 }
 
-/** Vertical plane through the IVC axis and a vein point, normal towards the patient's right. */
-export function veinPlane(set: LandmarkSet, vein: Vec3): Plane {
+/** Vertical plane through the IVC axis and a vein point, its normal towards `towards` (away from it when `sign` is −1). */
+export function veinPlane(set: LandmarkSet, vein: Vec3, towards: Vec3, sign: 1 | -1): Plane {
   const inf = set.points.ivc_inferior;
   const n = cross(sub(set.points.ivc_superior, inf), sub(vein, inf));
   const len = norm(n);
-  // Patient's right is +x in RAS (nifti1.h); a plane facing exactly forward has no right side (checkLandmarks refuses it).
-  const s = n[0] < 0 ? -1 / len : 1 / len;
+  const side = dot(n, sub(towards, inf)) * sign;
+  const s = side < 0 ? -1 / len : 1 / len;
   return { normal: [n[0] * s, n[1] * s, n[2] * s], point: inf };
 }
 
 export function landmarkPlanes(set: LandmarkSet): LandmarkPlanes {
   const p = set.points;
+  const portal: Plane = { normal: ivcAxis(set), point: p.portal_bifurcation };
   return {
-    rightHepatic: veinPlane(set, p.right_hepatic_vein),
-    middleHepatic: veinPlane(set, p.middle_hepatic_vein),
-    umbilical: veinPlane(set, p.umbilical_fissure),
-    portal: { normal: ivcAxis(set), point: p.portal_bifurcation },
+    rightHepatic: veinPlane(set, p.right_hepatic_vein, p.middle_hepatic_vein, -1),
+    middleHepatic: veinPlane(set, p.middle_hepatic_vein, p.umbilical_fissure, -1),
+    umbilical: veinPlane(set, p.umbilical_fissure, p.middle_hepatic_vein, 1),
+    portal,
+    leftLateral: p.left_portal_umbilical ? { normal: portal.normal, point: p.left_portal_umbilical } : portal,
   };
 }

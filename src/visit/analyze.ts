@@ -2,7 +2,7 @@ import { badInput } from '../errors.js';
 import type { Vec3 } from '../geometry/mat4.js';
 import { lesionsFromMask } from '../lesions/components.js';
 import type { Lesion } from '../lesions/lesion.js';
-import { markMargin, maskLesionMargin, type MarginResult } from '../lesions/margin.js';
+import { isMarginAlert, markMargin, maskLesionMargin, type MarginResult } from '../lesions/margin.js';
 import { lesionFromMark, type Mark } from '../lesions/marks.js';
 import { measureMaskLesion } from '../lesions/measures.js';
 import { placeMaskLesion, placePoint, type SegmentFractions } from '../lesions/placement.js';
@@ -127,7 +127,7 @@ function result(
     shortAxisMm: lesion.shortAxisMm,
     marginMm: margin.marginMm,
     nearestOtherSegment: margin.nearestOtherSegment,
-    marginAlert: margin.marginMm !== null && margin.marginMm < setMarginMm,
+    marginAlert: isMarginAlert(margin.marginMm, setMarginMm),
     source: lesion.source,
     max3dMm: lesion.max3dMm,
     meanValue: lesion.meanValue,

@@ -91,7 +91,7 @@ describe('chart series from the follow-up', () => {
     expect(valueScale([])).toEqual({ max: 1, ticks: [0, 0.2, 0.4, 0.6, 0.8, 1] });
   });
 
-  it('margin alerts: lesions under the set margin, latest visit first, with track and neighbour', () => {
+  it('margin alerts: lesions at or within the set margin, latest visit first, with track and neighbour', () => {
     const lr = (l: FollowupLesion, nearest: SegmentName | null): LesionResult =>
       ({ ...l, viableAxialMm: undefined, marginMm: l.marginMm ?? null, nearestOtherSegment: nearest, segmentFractions: {}, shortAxisMm: 0, source: 'mask', max3dMm: null, meanValue: null, longestAxialEndpointsMm: null, voxelCount: 0, segmentWarning: null });
     const visits = series.map((v) => ({ id: v.id, date: v.date, analysis: { lesions: v.lesions.map((l) => lr(l, l.segment === 'VI' ? 'V' : 'IVa')) } }));
@@ -101,7 +101,9 @@ describe('chart series from the follow-up', () => {
     ]);
     // The same lesions the follow-up lists as alerts, visit by visit (track ids).
     expect(f.visits.map((v) => v.marginAlerts)).toEqual([[], ['T2'], ['T4']]);
-    expect(belowMargin({ marginMm: 10, marginAlert: true }, 10)).toBe(false);
+    // At the set margin is an alert (≤); just beyond it is not.
+    expect(belowMargin({ marginMm: 10, marginAlert: false }, 10)).toBe(true);
+    expect(belowMargin({ marginMm: 10.1, marginAlert: true }, 10)).toBe(false);
     expect(belowMargin({ marginAlert: true }, 10)).toBe(true);
     expect(trackOfLesion(f).get('v3/L4')).toBe('T4');
   });

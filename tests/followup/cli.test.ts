@@ -89,12 +89,26 @@ describe('falciform followup', () => {
     expect(doc.tracks.slice(0, 2).every((t: { lesions: object }) => Object.keys(t.lesions).join() === 'v1,v2')).toBe(true);
     expect(v2.newLesions).toEqual(['T3']);
     expect(v2.goneLesions).toEqual([]);
-    // Targets shrank from about 20 + 15 mm to about 12 + 9 mm (PR by targets), but a new lesion
-    // makes the visit PD (RECIST 1.1, Eisenhauer et al. 2009, table 1).
+    // Targets shrank from about 20 + 15 mm to about 12 + 9 mm (PR by targets). The new lesion is
+    // about 9 mm, under the 10 mm default: equivocal until a reader calls it (RECIST 1.1 section
+    // 4.3.5, from memory), so the visit is PR; nothing is said outside the liver (not assessed).
     expect(v2.response.criteria).toBe('RECIST 1.1');
     expect(v2.response.changeFromBaselinePct).toBeLessThan(-30);
     expect(v2.response.targetCategory).toBe('PR');
-    expect(v2.response.category).toBe('PD');
+    expect(v2.equivocalNewLesions).toEqual(['T3']);
+    expect(v2.readerCalls.outsideLiver).toBe('not-assessed');
+    expect(v2.response.category).toBe('PR');
+    expect(doc.scope).toMatch(/assesses the liver/);
+    expect(doc.bestResponse).toMatchObject({ category: 'PR', progression: null });
+    // The reader calls it unequivocal on the command line: a new lesion makes the visit PD (table 1),
+    // progression dated at v2.
+    const called = falciform('followup', join(dir, 'manifest.json'), '--json', '--new-lesion', `v2:${doc.tracks[2].lesions.v2}=unequivocal`, '--outside-liver', 'v2=none');
+    expect(called.stderr).toBe('');
+    const v2c = JSON.parse(called.stdout).visits[1];
+    expect(v2c.unequivocalNewLesions).toEqual([{ track: 'T3', from: 'reader' }]);
+    expect(v2c.readerCalls.outsideLiver).toBe('none');
+    expect(v2c.response.category).toBe('PD');
+    expect(JSON.parse(called.stdout).bestResponse).toMatchObject({ category: 'PD', progression: { visit: 'v2', date: '2026-03-02' } });
     const t1 = doc.tracks[0];
     expect(t1.target).toBe(true);
     expect(t1.segments.v1).toBe('VIII');
@@ -105,7 +119,10 @@ describe('falciform followup', () => {
   it('prints a readable table without --json', () => {
     const r = falciform('followup', join(dir, 'manifest.json'));
     expect(r.status).toBe(0);
-    expect(r.stdout).toMatch(/v2 {2}2026-03-02 {2}PD/);
+    expect(r.stdout).toMatch(/v2 {2}2026-03-02 {2}PR/);
+    expect(r.stdout).toMatch(/equivocal new T3 \(followed, not PD\)/);
+    expect(r.stdout).toMatch(/Best overall response: PR; no progression/);
+    expect(r.stdout).toMatch(/Falciform assesses the liver/);
     expect(r.stdout).toMatch(/not a medical device/);
   });
 
@@ -119,5 +136,8 @@ describe('falciform followup', () => {
     expect(missing.status).toBe(3);
     expect(missing.stderr).toMatch(/nothing\.nii\.gz/);
     expect(falciform('followup').status).toBe(2);
+    const badCall = falciform('followup', join(dir, 'manifest.json'), '--non-target', 'v2=better');
+    expect(badCall.status).toBe(2);
+    expect(badCall.stderr).toMatch(/--non-target: "better" must be one of present, absent, unequivocal-progression/);
   });
 });

@@ -118,9 +118,21 @@ describe('follow-up of a patient', () => {
       ],
       { marginMm: 10 },
     );
-    expect(r.visits[1]).toMatchObject({ newLesions: ['T3'], goneLesions: ['T2'] });
-    // Targets 30 → 20 mm (−33.3%, PR) but a new lesion → PD overall (RECIST 1.1 table 1).
-    expect(r.visits[1].response).toMatchObject({ targetCategory: 'PR', newLesion: true, category: 'PD' });
+    expect(r.visits[1]).toMatchObject({ newLesions: ['T3'], goneLesions: ['T2'], unconfirmedGone: ['T2'] });
+    // The new lesion is 6 mm, under the 10 mm default: equivocal, followed, not PD (RECIST 1.1
+    // section 4.3.5, from memory: a new lesion must be unequivocal; small size is the example given).
+    expect(r.visits[1]).toMatchObject({ equivocalNewLesions: ['T3'], unequivocalNewLesions: [] });
+    expect(r.visits[1].response).toMatchObject({ targetCategory: 'PR', newLesion: false, category: 'PR' });
+    // Called unequivocal by the reader: targets 30 → 20 mm (−33.3%, PR) but a new lesion → PD (table 1).
+    const called = runFollowup(
+      [
+        visit('v1', '2026-01-01', [lesion('L1', [0, 0, 0], 30, 'V'), lesion('L2', [60, 0, 0], 8, 'IVa')]),
+        visit('v2', '2026-02-01', [lesion('L1', [2, 0, 0], 20, 'VIII'), lesion('L2', [-80, 50, 0], 6, 'VI')], { readerCalls: { newLesions: { L2: 'unequivocal' } } }),
+      ],
+      { marginMm: 10 },
+    );
+    expect(called.visits[1]).toMatchObject({ unequivocalNewLesions: [{ track: 'T3', from: 'reader' }], equivocalNewLesions: [] });
+    expect(called.visits[1].response).toMatchObject({ targetCategory: 'PR', newLesion: true, category: 'PD' });
     expect(r.tracks[0]).toMatchObject({ segmentChanged: true, segmentChanges: [{ visit: 'v2', from: 'V', to: 'VIII' }] });
     // Burden keeps a row for every segment seen at any visit, zeros included.
     expect(r.burden.filter((b) => b.visit === 'v2').map((b) => [b.segment, b.count])).toEqual([['IVa', 0], ['V', 0], ['VI', 1], ['VIII', 1]]);
@@ -142,7 +154,9 @@ describe('follow-up of a patient', () => {
       expect(isFalciformError(e)).toBe(true);
       expect((e as Error).message).toMatch(/T9.*baseline/);
     }
-    expect(runFollowup(visits, { marginMm: 10, targets: ['T1', 'T2', 'T3'] }).warnings.join(' ')).toMatch(/at most 2 per organ/);
+    // One rule for the command line and the app (RECIST 1.1 section 4.2, at most two targets per
+    // organ, from memory; the liver is one organ): more than two named is refused.
+    expect(() => runFollowup(visits, { marginMm: 10, targets: ['T1', 'T2', 'T3'] })).toThrow(/at most 2 per organ/);
   });
 
   it('makes non-target progression PD only when a reader says so', () => {

@@ -62,11 +62,14 @@ describe('measurability and target selection', () => {
 });
 
 describe('recorded diameters and sums', () => {
-  it('records a target too small to measure as 5 mm and a vanished one as 0 mm', () => {
-    // Source: RECIST 1.1 section 4.3.2 (from memory): present but too small to measure → 5 mm
-    // default; disappeared → 0 mm.
-    expect(recordedTargetMm(measured(3.2))).toBe(5);
+  it('records a measurement as measured (also under 5 mm), 5 mm only for "too small to measure", 0 mm when gone', () => {
+    // Source: RECIST 1.1 section 4.3.2, target lesions that become too small to measure (from
+    // memory): an actual measurement is recorded even when under 5 mm; the 5 mm default is for a
+    // lesion the reader believes present but too small to measure; a disappeared lesion is 0 mm.
+    expect(recordedTargetMm(measured(3.2))).toBe(3.2);
     expect(recordedTargetMm(measured(4.99))).toBe(5);
+    expect(recordedTargetMm(measured(4.94))).toBe(4.9);
+    expect(recordedTargetMm({ kind: 'too-small' })).toBe(5);
     expect(recordedTargetMm(measured(5))).toBe(5);
     expect(recordedTargetMm(measured(17.26))).toBe(17.3);
     expect(recordedTargetMm(vanished)).toBe(0);
@@ -130,25 +133,35 @@ describe('target response at the threshold edges', () => {
     expect(r[1].nadirSumMm).toBe(60);
   });
 
-  it('CR when every target has gone; a faint remnant (5 mm default) is not CR', () => {
+  it('CR when every target has gone; a faint remnant is not CR', () => {
     // Source: RECIST 1.1 section 4.3.1: CR is the disappearance of all target lesions.
     const r = series([[measured(22), measured(11)], [vanished, vanished]]);
     expect(r[1].targetSumMm).toBe(0);
     expect(r[1].changeFromBaselinePct).toBe(-100);
     expect(r[1].targetCategory).toBe('CR');
-    // 22 + 11 = 33 → 0 + 5 (too small to measure) = 5: −84.8% → PR, not CR.
+    // 22 + 11 = 33 → 0 + 2 (measured) = 2: −93.9% → PR, not CR.
     const s = series([[measured(22), measured(11)], [vanished, measured(2)]]);
-    expect(s[1].targetSumMm).toBe(5);
+    expect(s[1].targetSumMm).toBe(2);
+    expect(s[1].changeFromBaselinePct).toBe(-93.9);
     expect(s[1].targetCategory).toBe('PR');
+    // Marked present but too small to measure: 0 + 5 = 5: −84.8% → PR.
+    const t = series([[measured(22), measured(11)], [vanished, { kind: 'too-small' }]]);
+    expect(t[1].targetSumMm).toBe(5);
+    expect(t[1].changeFromBaselinePct).toBe(-84.8);
   });
 
-  it('a target reappearing after CR is PD (nadir 0, +5 mm)', () => {
-    // Nadir 0 after CR; a faint reappearance is recorded 5 mm: +5 mm and ≥ 20% of 0 → PD.
-    const r = series([[measured(20)], [vanished], [measured(3)]]);
+  it('a target reappearing after CR is PD once it is 5 mm over the nadir of 0', () => {
+    // Source: RECIST 1.1 section 4.3.1 (PD: +20% and +5 mm over the nadir). Nadir 0 after CR; a
+    // reappearance marked too small to measure is 5 mm: +5 mm and ≥ 20% of 0 → PD.
+    const r = series([[measured(20)], [vanished], [{ kind: 'too-small' }]]);
     expect(r[1].targetCategory).toBe('CR');
     expect(r[2].nadirSumMm).toBe(0);
     expect(r[2].changeFromNadirPct).toBeNull();
     expect(r[2].targetCategory).toBe('PD');
+    // Measured at 3 mm it is +3 mm only: not PD by the targets (PR against the 20 mm baseline).
+    const s = series([[measured(20)], [vanished], [measured(3)]]);
+    expect(s[2].targetSumMm).toBe(3);
+    expect(s[2].targetCategory).toBe('PR');
   });
 
   it('NE when a target cannot be assessed, unless the others already prove PD', () => {
@@ -176,11 +189,34 @@ describe('non-target and overall response', () => {
   it('non-target CR when all have gone, non-CR/non-PD while any persists, PD only by a reader', () => {
     // Source: RECIST 1.1 sections 4.3.3 and 4.3.4: non-target PD is unequivocal progression, a
     // reader's judgement; it is never inferred here from measurements.
-    expect(nonTargetCategory({ total: 3, present: 0, notEvaluable: 0 })).toBe('CR');
-    expect(nonTargetCategory({ total: 3, present: 1, notEvaluable: 0 })).toBe('non-CR/non-PD');
-    expect(nonTargetCategory({ total: 3, present: 3, notEvaluable: 0, readerProgression: true })).toBe('PD');
-    expect(nonTargetCategory({ total: 3, present: 0, notEvaluable: 1 })).toBe('NE');
-    expect(nonTargetCategory({ total: 0, present: 0, notEvaluable: 0 })).toBe('none');
+    const liverOnly = { outsideLiver: 'none' } as const;
+    expect(nonTargetCategory({ total: 3, present: 0, notEvaluable: 0, ...liverOnly })).toBe('CR');
+    expect(nonTargetCategory({ total: 3, present: 1, notEvaluable: 0, ...liverOnly })).toBe('non-CR/non-PD');
+    expect(nonTargetCategory({ total: 3, present: 3, notEvaluable: 0, readerProgression: true, ...liverOnly })).toBe('PD');
+    expect(nonTargetCategory({ total: 3, present: 0, notEvaluable: 1, ...liverOnly })).toBe('NE');
+    expect(nonTargetCategory({ total: 0, present: 0, notEvaluable: 0, ...liverOnly })).toBe('none');
+  });
+
+  it("takes the reader's non-target call and the disease outside the liver into the non-target category", () => {
+    // Source: RECIST 1.1 sections 4.3.3–4.3.4 and tables 1–2 (from memory): non-target CR needs every
+    // non-target lesion gone, in every organ; an organ not assessed makes the non-target response
+    // "not evaluated" (NE); unequivocal progression anywhere is PD.
+    const gone = { total: 2, present: 0, notEvaluable: 0 };
+    // The reader's call replaces what the liver masks show.
+    expect(nonTargetCategory({ ...gone, call: 'present', outsideLiver: 'none' })).toBe('non-CR/non-PD');
+    expect(nonTargetCategory({ total: 2, present: 2, notEvaluable: 0, call: 'absent', outsideLiver: 'none' })).toBe('CR');
+    expect(nonTargetCategory({ ...gone, call: 'unequivocal-progression', outsideLiver: 'none' })).toBe('PD');
+    // Outside the liver: not assessed (the default) never allows CR; stable disease there is non-CR/non-PD.
+    expect(nonTargetCategory(gone)).toBe('NE');
+    expect(nonTargetCategory({ ...gone, outsideLiver: 'not-assessed' })).toBe('NE');
+    expect(nonTargetCategory({ ...gone, outsideLiver: 'stable' })).toBe('non-CR/non-PD');
+    expect(nonTargetCategory({ ...gone, outsideLiver: 'progression' })).toBe('PD');
+    expect(nonTargetCategory({ total: 0, present: 0, notEvaluable: 0, outsideLiver: 'stable' })).toBe('non-CR/non-PD');
+    // Table 1: all targets gone with non-targets not all evaluated is PR, not CR.
+    expect(overallResponse('CR', nonTargetCategory(gone), false)).toBe('PR');
+    expect(overallResponse('CR', nonTargetCategory({ ...gone, outsideLiver: 'none' }), false)).toBe('CR');
+    // Table 2: no targets, liver non-targets persisting, nothing outside → non-CR/non-PD.
+    expect(overallResponse('none', nonTargetCategory({ total: 1, present: 1, notEvaluable: 0, outsideLiver: 'none' }), false)).toBe('non-CR/non-PD');
   });
 
   it('follows the time-point table for targets, non-targets and new lesions', () => {

@@ -4,6 +4,8 @@ import { planRemnant, type PlannerLesion } from '../../src/remnant/planner.js';
 import { visitVolumetry, type VisitVolumetry } from '../../src/remnant/volumetry.js';
 import type { SegmentName } from '../../src/segments/segment-map.js';
 import { blockMap } from './phantom.js';
+import { buildSegmentMap } from '../../src/segments/build.js';
+import { gridAffine, LIVER, liverVolume, phantomLandmarks, rotation } from '../segments/phantom.js';
 
 /** Invented visit: 1650 mL liver, 40 mL tumour in VIII and 10 mL in II, so 1600 mL tumour-free. */
 function visit(split = false): VisitVolumetry {
@@ -74,6 +76,23 @@ describe('remnant share arithmetic', () => {
     expect(s.remnantMl).toBeCloseTo(1070, 9);
     expect(() => planRemnant(visit(), 'left-lobectomy')).toThrow(/unknown resection "left-lobectomy"; known: right-hemihepatectomy/);
     expect(() => planRemnant(visit(), ['IX' as SegmentName])).toThrow(FalciformError);
+  });
+
+  it('segment I on a landmark-built map without a caudate mask: its tissue is in the plane segments, and the warning says so', () => {
+    // The plane rule (brief) labels every liver voxel; without a caudate mask none becomes I, so the
+    // liver volume is the whole mask's (nothing is left out) and the caudate is inside other segments.
+    const dims: [number, number, number] = [40, 32, 28];
+    const affine = gridAffine(rotation(0, 0, 0), [5, 5, 5], dims, LIVER.centre);
+    const liver = liverVolume(dims, affine);
+    const { map } = buildSegmentMap(liver, phantomLandmarks());
+    const vol = { ...visitVolumetry(map, undefined), caudateInPlaneSegments: true };
+    let liverVoxels = 0;
+    for (let n = 0; n < liver.data.length; n++) if (liver.data[n] > 0) liverVoxels++;
+    expect(vol.liverVolumeMl).toBeCloseTo((liverVoxels * 125) / 1000, 6);
+    expect(vol.segments.map((s) => s.segment)).not.toContain('I');
+    const w = planRemnant(vol, 'right-hemihepatectomy').warnings;
+    expect(w.some((x) => /Segment I is not separated .* counted in the plane segments around it/.test(x))).toBe(true);
+    expect(w.some((x) => /understated/.test(x))).toBe(false);
   });
 
   it('warnings: nothing chosen, a segment not in the map, no segment I, half a body size, estimates', () => {

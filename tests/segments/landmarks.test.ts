@@ -71,7 +71,12 @@ describe('landmark-set checks before the plane rule (source: brief, plane method
   it('refuses vein points out of right-to-left order', () => {
     const set = phantomLandmarks();
     [set.points.right_hepatic_vein, set.points.umbilical_fissure] = [set.points.umbilical_fissure, set.points.right_hepatic_vein];
-    expect(problem(set)).toMatch(/middle_hepatic_vein is not left of the right_hepatic_vein plane.*expected right_hepatic_vein, middle_hepatic_vein, umbilical_fissure from the patient's right to left/);
+    // Mirrored: the plane of the (now leftmost) umbilical fissure has the middle hepatic vein on the patient's left.
+    expect(problem(set)).toMatch(/has the middle hepatic vein on the patient's left.*expected right_hepatic_vein, middle_hepatic_vein, umbilical_fissure from the patient's right to left/);
+    // Right hepatic vein and middle hepatic vein swapped.
+    const other = phantomLandmarks();
+    [other.points.right_hepatic_vein, other.points.middle_hepatic_vein] = [other.points.middle_hepatic_vein, other.points.right_hepatic_vein];
+    expect(problem(other)).toMatch(/expected right_hepatic_vein, middle_hepatic_vein, umbilical_fissure from the patient's right to left/);
   });
 
   it('lists several problems in one message', () => {

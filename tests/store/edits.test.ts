@@ -137,7 +137,7 @@ describe('landmarks', () => {
     const db = await stored();
     const untouched = await dump(db);
     const swapped = landmarks({ middle_hepatic_vein: LANDMARKS.points.right_hepatic_vein, right_hepatic_vein: LANDMARKS.points.middle_hepatic_vein });
-    expect(await failure(saveLandmarks(db, ID, 'v2', swapped))).toMatch(/middle_hepatic_vein is not left of the right_hepatic_vein plane/);
+    expect(await failure(saveLandmarks(db, ID, 'v2', swapped))).toMatch(/right_hepatic_vein is not right of the middle_hepatic_vein plane/);
     expect(await failure(saveLandmarks(db, ID, 'v1', landmarks()))).toMatch(/not built from landmarks/);
     expect(await dump(db)).toEqual(untouched);
   });

@@ -56,12 +56,13 @@ describe('analyzeVisit', () => {
     expect(m3.segmentWarning).toMatch(/^M3: centre falls on background.*segment V.*\(2\.0 mm away\)/);
   });
 
-  it('alerts below the set margin only, 10 mm by default', () => {
+  it('alerts at or within the set margin, 10 mm by default (common practice)', () => {
     const m = [mark('A', w(5, 10, 10), 2)]; // 15 mm to VIII, less 1 mm: 14 mm
     expect(DEFAULT_MARGIN_MM).toBe(10);
     expect(analyzeVisit({ scan, segments: map, marks: m }).lesions[0]).toMatchObject({ marginMm: 14, marginAlert: false });
     expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 14.5 }).lesions[0].marginAlert).toBe(true);
-    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 14 }).lesions[0].marginAlert).toBe(false);
+    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 14 }).lesions[0].marginAlert).toBe(true);
+    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 13.9 }).lesions[0].marginAlert).toBe(false);
   });
 
   it('numbers mask lesions L1, L2 … before the marks, which keep their ids', () => {

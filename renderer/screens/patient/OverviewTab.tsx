@@ -1,4 +1,5 @@
 import { COMPUTED_RESPONSE } from '../../../src/caution';
+import { bestResponseText } from '../../../src/followup/best-response';
 import type { VisitFollowup } from '../../../src/followup/followup';
 import { PLANE_APPROXIMATION } from '../../../src/segments/build';
 import { usePatient } from '../../analysis/PatientContext';
@@ -44,9 +45,10 @@ export function OverviewTab() {
                 <td>{mv.segments ? 'imported' : <>built from landmarks <span className="muted">(flat planes)</span></>}</td>
                 <td>{lesions.length} ({[mv.lesions && 'mask', mv.marks && 'marks'].filter(Boolean).join(' + ')})</td>
                 <td className={f?.marginAlerts.length ? 'alert-cell' : undefined}>{f?.marginAlerts.join(', ') || '—'}</td>
-                <td>{fmtMm(r?.targetSumMm, 1)}</td>
-                <td>{k === 0 ? 'baseline' : fmtPct(r?.changeFromBaselinePct, 1)}</td>
-                <td>{k === 0 ? '—' : fmtPct(r?.changeFromNadirPct, 1)}</td>
+                {/* A target not evaluable makes the sum NE, never a smaller sum or −100%. */}
+                <td data-testid="target-sum">{r && !r.targetSumComplete ? 'NE' : fmtMm(r?.targetSumMm, 1)}</td>
+                <td>{k === 0 ? 'baseline' : r && !r.targetSumComplete ? 'NE' : fmtPct(r?.changeFromBaselinePct, 1)}</td>
+                <td>{k === 0 ? '—' : r && !r.targetSumComplete ? 'NE' : fmtPct(r?.changeFromNadirPct, 1)}</td>
                 <td>
                   <span className={`category category-${(f?.overall ?? 'none').replace(/[^A-Za-z]/g, '')}`} data-testid="response">
                     {k === 0 ? 'baseline' : (f?.overall ?? '—')}
@@ -60,6 +62,8 @@ export function OverviewTab() {
       </table>
       <p className="hint" data-testid="computed-response-note">{COMPUTED_RESPONSE}</p>
       {analysis.manifest.visits.some((v) => !v.segments) && <p className="hint" data-testid="plane-approximation">{PLANE_APPROXIMATION}</p>}
+      <p data-testid="best-response">Best overall response ({analysis.followup.criteria}): {bestResponseText(analysis.followup.bestResponse)}</p>
+      {analysis.followup.departures.length > 0 && <p>Protocol settings: {analysis.followup.departures.join('; ')}</p>}
       {analysis.followup.notes.length > 0 && (
         <ul className="notes">
           {analysis.followup.notes.map((n) => <li key={n}>{n}</li>)}

@@ -1,19 +1,28 @@
 import { CAUTION } from '../../caution.js';
+import { bestResponseText } from '../../followup/best-response.js';
 import type { FollowupResult, VisitFollowup } from '../../followup/followup.js';
+import { targetSumText } from '../../followup/response.js';
 import { parseArgs, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { followupOfPatient, loadPatient, type LoadedPatient } from '../patient.js';
+import { READER_OPTIONS, READER_USAGE, withReaderOptions } from '../reader-options.js';
 
-const USAGE = 'falciform followup MANIFEST [--json]';
+const USAGE = `falciform followup MANIFEST [--json] ${READER_USAGE}`;
 
 export const followup: Command = {
   summary: "a patient's visits: lesion tracks, response per visit, burden per segment per visit",
   usage: USAGE,
   async run(argv) {
-    const args = parseArgs(argv, [], ['json']);
+    const args = parseArgs(argv, READER_OPTIONS, ['json']);
     if (args.positional.length !== 1) throw new UsageError(args.positional.length === 0 ? 'name the study manifest' : `unexpected argument "${args.positional[1]}"`);
     const manifestFile = args.positional[0];
-    const patient = await loadPatient(manifestFile);
+    const loaded = await loadPatient(manifestFile);
+    const manifest = withReaderOptions(loaded.manifest, args);
+    const patient: LoadedPatient = {
+      ...loaded,
+      manifest,
+      visits: loaded.visits.map((v) => ({ ...v, followup: { ...v.followup, readerCalls: manifest.visits.find((m) => m.id === v.manifest.id)?.readerCalls } })),
+    };
     const result = followupOfPatient(patient);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(patient, result))}\n`);
     else process.stdout.write(summary(patient, result));
@@ -31,6 +40,10 @@ function forJson(patient: LoadedPatient, r: FollowupResult) {
     criteria: r.criteria,
     marginMm: r.marginMm,
     targets: r.targets,
+    bestResponse: r.bestResponse,
+    protocol: r.protocol,
+    departures: r.departures,
+    scope: r.scope,
     warnings: [...visitWarnings, ...r.warnings],
     notes: r.notes,
     caution: CAUTION,
@@ -48,7 +61,10 @@ function summary(patient: LoadedPatient, r: FollowupResult): string {
     `Patient ${patient.manifest.patient.id}: ${r.visits.length} visit(s), ${r.criteria}, ` +
       `targets ${list(r.targets.tracks)} (${r.targets.source === 'named' ? 'named in the manifest' : 'default selection'}), margin ${r.marginMm} mm`,
   );
+  lines.push(r.scope);
+  if (r.departures.length) lines.push(`Protocol settings: ${r.departures.join('; ')}`);
   r.visits.forEach((v, k) => lines.push('', ...visitBlock(r, v, k)));
+  lines.push('', `Best overall response: ${bestResponseText(r.bestResponse)}`);
   lines.push('', 'Burden per segment (count / sum of longest axial diameters mm / volume mL):');
   const segments = [...new Set(r.burden.map((b) => b.segment))];
   lines.push(`  ${'visit'.padEnd(10)} ${segments.map((s) => (s ?? 'outside').padStart(16)).join('')}`);
@@ -65,13 +81,21 @@ function summary(patient: LoadedPatient, r: FollowupResult): string {
   return lines.join('\n');
 }
 
+/** The reader's calls at a visit and what is waiting for one. */
+function readerLine(v: VisitFollowup): string {
+  const parts = [`reader: non-targets ${v.readerCalls.nonTarget ?? '—'}, outside the liver ${v.readerCalls.outsideLiver}`];
+  if (v.equivocalNewLesions.length) parts.push(`equivocal new ${list(v.equivocalNewLesions)} (followed, not PD)`);
+  if (v.unconfirmedGone.length) parts.push(`missing, not confirmed gone ${list(v.unconfirmedGone)} (NE)`);
+  return parts.join('; ');
+}
+
 function visitBlock(r: FollowupResult, v: VisitFollowup, k: number): string[] {
   const resp = v.response;
   const head =
     k === 0
       ? `${v.id}  ${v.date}  baseline  target sum ${f1(resp.targetSumMm)} mm`
       : `${v.id}  ${v.date}  ${v.overall}  (targets ${resp.targetCategory}, non-targets ${resp.nonTargetCategory}${resp.newLesion ? ', new lesion' : ''})  ` +
-        `target sum ${f1(resp.targetSumMm)} mm${resp.targetSumComplete ? '' : ' (incomplete)'}, ${pct(resp.changeFromBaselinePct)} from baseline ${f1(resp.baselineSumMm)}, ` +
+        `target sum ${targetSumText(resp)}, ${pct(resp.changeFromBaselinePct)} from baseline ${f1(resp.baselineSumMm)}, ` +
         `${pct(resp.changeFromNadirPct)} from nadir ${f1(resp.nadirSumMm)}`;
   const out = [head];
   for (const other of v.otherResponses) {
@@ -80,6 +104,7 @@ function visitBlock(r: FollowupResult, v: VisitFollowup, k: number): string[] {
   const a = v.alignment;
   if (k > 0) out.push(`  aligned by ${a.method}${a.residualMm === null ? '' : `, residual ${a.residualMm.toFixed(2)} mm`}${a.rotationDeg ? `, rotation ${a.rotationDeg.toFixed(1)}°` : ''}`);
   if (k > 0) out.push(`  new ${list(v.newLesions)}   gone ${list(v.goneLesions)}   not evaluable ${list(v.notEvaluable)}   margin alerts ${list(v.marginAlerts)}`);
+  if (k > 0) out.push(`  ${readerLine(v)}`);
   else out.push(`  margin alerts ${list(v.marginAlerts)}`);
   out.push('  track  lesion(s)      segment  longest mm  target  status');
   for (const t of r.tracks) {
