@@ -2,7 +2,7 @@
 // Each prints its own figures; the NIfTI, segment and visit benchmarks run their nibabel/SciPy peers too.
 import { spawnSync } from 'node:child_process';
 
-const benches = ['nifti-load', 'segments-build', 'analyze-visit', 'fuzz'];
+const benches = ['nifti-load', 'segments-build', 'analyze-visit', 'match', 'fuzz'];
 const build = spawnSync('npx', ['tsc', '-p', 'tsconfig.node.json'], { stdio: 'inherit' });
 if (build.status !== 0) process.exit(build.status ?? 1);
 let failed = 0;

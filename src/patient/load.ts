@@ -53,6 +53,8 @@ export interface PatientFiles {
 export interface LoadOptions {
   /** Keep each visit's segment map (large: one byte per voxel). */
   keepSegmentMaps?: boolean;
+  /** Lesions per visit above which a mask is refused (default DEFAULT_MAX_LESIONS). */
+  maxLesions?: number;
 }
 
 export async function loadPatientFrom(
@@ -104,7 +106,7 @@ async function loadVisit(
   let analysis: VisitAnalysis;
   let volumetry: VisitVolumetry;
   try {
-    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions });
+    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions, maxLesions: opts.maxLesions });
     // Here the segment map and lesion mask are still in hand; later steps keep only plain results.
     volumetry = visitVolumetry(segments, lesionMask ?? (marks && analysis.lesions.filter((l) => l.source === 'mark')));
   } catch (e) {
@@ -117,7 +119,7 @@ async function loadVisit(
   let viable: { components: ViableComponent[] } | undefined;
   if (v.viable !== undefined) {
     const mask = await volume('viable', v.viable);
-    const found = lesionsFromMask(mask, files.viable);
+    const found = lesionsFromMask(mask, files.viable, opts.maxLesions);
     viable = {
       components: found.lesions.map((lv, n) => {
         const m = measureMaskLesion(`V${n + 1}`, mask, lv, null);

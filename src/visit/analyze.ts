@@ -26,6 +26,8 @@ export interface VisitInput {
   marginMm?: number;
   /** File names for messages. */
   lesionFile?: string;
+  /** Lesions per visit above which the mask is refused (default DEFAULT_MAX_LESIONS). */
+  maxLesions?: number;
 }
 
 /** One lesion of a visit: the contract's fields first, then extras. */
@@ -75,7 +77,7 @@ export function analyzeVisit(input: VisitInput): VisitAnalysis {
 
   if (input.lesionMask) {
     const mask = input.lesionMask;
-    const found = lesionsFromMask(mask, input.lesionFile);
+    const found = lesionsFromMask(mask, input.lesionFile, input.maxLesions);
     if (found.kind === 'empty') warnings.push(`${input.lesionFile ?? 'lesion mask'}: holds no lesion voxels`);
     found.lesions.forEach((lv, n) => {
       const id = `L${n + 1}`;

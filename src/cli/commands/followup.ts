@@ -1,19 +1,19 @@
 import { CAUTION } from '../../caution.js';
 import type { FollowupResult, VisitFollowup } from '../../followup/followup.js';
-import { parseArgs, UsageError } from '../args.js';
+import { maxLesionsOption, parseArgs, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { followupOfPatient, loadPatient, type LoadedPatient } from '../patient.js';
 
-const USAGE = 'falciform followup MANIFEST [--json]';
+const USAGE = 'falciform followup MANIFEST [--max-lesions N] [--json]';
 
 export const followup: Command = {
   summary: "a patient's visits: lesion tracks, response per visit, burden per segment per visit",
   usage: USAGE,
   async run(argv) {
-    const args = parseArgs(argv, [], ['json']);
+    const args = parseArgs(argv, ['max-lesions'], ['json']);
     if (args.positional.length !== 1) throw new UsageError(args.positional.length === 0 ? 'name the study manifest' : `unexpected argument "${args.positional[1]}"`);
     const manifestFile = args.positional[0];
-    const patient = await loadPatient(manifestFile);
+    const patient = await loadPatient(manifestFile, { maxLesions: maxLesionsOption(args) });
     const result = followupOfPatient(patient);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(patient, result))}\n`);
     else process.stdout.write(summary(patient, result));

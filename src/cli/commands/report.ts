@@ -18,26 +18,27 @@ import { keyedPseudonym, pseudonymNote, randomPseudonym, type Pseudonym } from '
 import { customSchemeJson } from '../../report/scheme-export.js';
 import { segmentMapFileName, segmentMapNifti } from '../../report/segment-map-export.js';
 import { loadVisitWithMap } from '../../report/visit-maps.js';
-import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
+import { maxLesionsOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { readTextFile, writeFileAtomic } from '../node-io.js';
 import { diskFiles, followupOfPatient } from '../patient.js';
 import { findBrowser, printToPdf } from '../print-pdf.js';
 
 const USAGE =
-  'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key KEY] [--resection NAME] [--no-pdf]';
+  'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key KEY] [--resection NAME] [--max-lesions N] [--no-pdf]';
 
 export const report: Command = {
   summary: 'board summary (HTML, and PDF where Chromium or Chrome is installed), case-form CSV, segment maps as NIfTI',
   usage: USAGE,
   async run(argv) {
-    const args = parseArgs(argv, ['out', 'page', 'pseudonym-key', 'resection'], ['pseudonymise', 'no-pdf']);
+    const args = parseArgs(argv, ['out', 'page', 'pseudonym-key', 'resection', 'max-lesions'], ['pseudonymise', 'no-pdf']);
     if (args.positional.length !== 1) throw new UsageError(args.positional.length === 0 ? 'name the study manifest' : `unexpected argument "${args.positional[1]}"`);
     const manifestFile = args.positional[0];
     const outDir = requireOption(args, 'out');
     const page = pageOption(optionalOption(args, 'page'));
     const key = optionalOption(args, 'pseudonym-key');
     const resection = optionalOption(args, 'resection');
+    const maxLesions = maxLesionsOption(args);
     if (resection !== undefined && !resectionPreset(resection)) {
       throw new UsageError(`unknown resection "${resection}"; known: ${RESECTION_PRESETS.map((p) => p.id).join(', ')}`);
     }
@@ -61,7 +62,7 @@ export const report: Command = {
     // One visit at a time: analyse it, write its segment map, keep only the analysis.
     const visits: LoadedVisit[] = [];
     for (const mv of manifest.visits) {
-      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id);
+      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id, { maxLesions });
       visits.push(visit);
       await put(segmentMapFileName(mv.id), gzipSync(segmentMapNifti(segmentMap, mv.id)));
       const scheme = customSchemeJson(segmentMap.scheme);
