@@ -61,3 +61,26 @@ describe('lesion masks the command line refuses', () => {
     expect(JSON.parse(ok.stdout).lesions).toHaveLength(12);
   });
 });
+
+describe('files the command line refuses to read or write', () => {
+  it('refuses a device and a FIFO within a second, naming them', () => {
+    const fifo = join(dir, 'pipe.nii');
+    spawnSync('mkfifo', [fifo]);
+    for (const [path, what] of [['/dev/zero', 'a device'], ['/dev/urandom', 'a device'], [fifo, 'a pipe']]) {
+      const line = oneLine(falciform('inspect', path, '--json'));
+      expect(line).toContain(`${path}: is ${what}, not a regular file`);
+    }
+    expect(oneLine(falciform('followup', '/dev/zero'))).toContain('/dev/zero: is a device');
+  });
+
+  it('refuses an output that is one of the inputs, and one that is not a regular file', async () => {
+    const { segments } = await files;
+    const landmarks = join(dir, 'landmarks.json');
+    const { writeFileSync } = await import('node:fs');
+    writeFileSync(landmarks, '{}');
+    const same = oneLine(falciform('segments', '--liver', segments, '--landmarks', landmarks, '--out', segments));
+    expect(same).toContain(`${segments}: is also an input`);
+    expect(oneLine(falciform('segments', '--liver', segments, '--landmarks', landmarks, '--out', '/dev/null'))).toMatch(/^falciform segments: \/dev\/null: cannot be written: it is not a regular file/);
+    expect(oneLine(falciform('report', 'demo-data/DEMO-0001/manifest.json', '--out', '/proc/falciform', '--no-pdf'))).toContain('system folder');
+  });
+});

@@ -23,6 +23,7 @@ import type { Command } from '../commands.js';
 import { readTextFile, writeFileAtomic } from '../node-io.js';
 import { diskFiles, followupOfPatient } from '../patient.js';
 import { findBrowser, printToPdf } from '../print-pdf.js';
+import { checkOutputFolder } from '../regular-file.js';
 
 const USAGE =
   'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key KEY] [--resection NAME] [--max-lesions N] [--no-pdf]';
@@ -45,6 +46,7 @@ export const report: Command = {
 
     const manifest = parseManifest(await readTextFile(manifestFile), manifestFile);
     const source = diskFiles(manifestFile);
+    await checkOutputFolder(outDir);
     try {
       await mkdir(outDir, { recursive: true });
     } catch (e) {
