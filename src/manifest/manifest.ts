@@ -1,3 +1,4 @@
+import { withoutBom } from '../json-file.js';
 import { z } from 'zod';
 import { badFile } from '../errors.js';
 import { RESECTION_PRESETS } from '../remnant/resections.js';
@@ -99,7 +100,7 @@ export type ProposedResection = NonNullable<Manifest['resection']>;
 export function parseManifest(text: string, file: string): Manifest {
   let json: unknown;
   try {
-    json = JSON.parse(text);
+    json = JSON.parse(withoutBom(text));
   } catch (e) {
     throw badFile(file, `is not valid JSON (${(e as Error).message})`);
   }
