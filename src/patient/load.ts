@@ -106,7 +106,7 @@ async function loadVisit(
   let analysis: VisitAnalysis;
   let volumetry: VisitVolumetry;
   try {
-    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions, maxLesions: opts.maxLesions });
+    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions, scanFile: files.scan, segmentsFile: files.segments ?? files.liver, maxLesions: opts.maxLesions });
     // Here the segment map and lesion mask are still in hand; later steps keep only plain results.
     volumetry = visitVolumetry(segments, lesionMask ?? (marks && analysis.lesions.filter((l) => l.source === 'mark')));
   } catch (e) {

@@ -84,3 +84,14 @@ describe('files the command line refuses to read or write', () => {
     expect(oneLine(falciform('report', 'demo-data/DEMO-0001/manifest.json', '--out', '/proc/falciform', '--no-pdf'))).toContain('system folder');
   });
 });
+
+describe('the import checks on the command line', () => {
+  it('refuses a segment map placed 10 m away from its scan, as the app\'s import does', async () => {
+    const { scan, dots } = await files;
+    const far = join(dir, 'far-segments.nii.gz');
+    const seg = Uint8Array.from({ length: size }, (_, n) => 1 + (n % 16 >> 1));
+    await saveVolume(far, makeVolume(dims, seg, [2, 0, 0, 10_000, 0, 2, 0, 0, 0, 0, 2, 0, 0, 0, 0, 1], 'uint8'), 'uint8');
+    const line = oneLine(falciform('analyze', '--scan', scan, '--segments', far, '--lesions', dots, '--json'));
+    expect(line).toContain(`${far}: does not overlap the scan ${scan}`);
+  });
+});

@@ -41,7 +41,7 @@ export const analyze: Command = {
     const segments = await visitMap(segmentsFile, schemeFile, liverFile, landmarksFile, warnings);
     const lesionMask = lesionsFile !== undefined ? keep(await loadVolume(lesionsFile), warnings) : undefined;
     const marks = marksFile !== undefined ? parseMarks(await readTextFile(marksFile), marksFile) : undefined;
-    const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile, maxLesions: maxLesionsOption(args) });
+    const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile, scanFile, segmentsFile: segmentsFile ?? liverFile, maxLesions: maxLesionsOption(args) });
     analysis.warnings.unshift(...warnings);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(analysis))}\n`);
     else process.stdout.write(summary(analysis, marginMm));
