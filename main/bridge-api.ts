@@ -22,7 +22,8 @@ const fileName = z
   .max(120)
   .refine((n) => !/[/\\:*?"<>|]/.test(n) && ![...n].some((c) => c.charCodeAt(0) < 32), 'a plain file name without folders');
 
-export const MAX_OPEN_BYTES = 4 * 1024 ** 3;
+/** Below the 2 GiB that one file read can return in Node (fs.readFile refuses larger files). */
+export const MAX_OPEN_BYTES = 2 * 1024 ** 3 - 1;
 export const MAX_SAVE_BYTES = 1024 ** 3;
 
 export const openFilesRequest = z.strictObject({

@@ -104,6 +104,9 @@ export interface Session {
   setPermissionRequestHandler(
     handler: ((webContents: WebContents, permission: string, callback: (granted: boolean) => void) => void) | null,
   ): void;
+  setPermissionCheckHandler(
+    handler: ((webContents: WebContents | null, permission: string, requestingOrigin: string, details: unknown) => boolean) | null,
+  ): void;
   webRequest: {
     onBeforeRequest(listener: (details: { url: string }, callback: (response: { cancel?: boolean }) => void) => void): void;
   };

@@ -1,4 +1,5 @@
-import { lstat, readdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { constants } from 'node:fs';
+import { open, readdir, rename, writeFile, type FileHandle } from 'node:fs/promises';
 import { basename, join, relative } from 'node:path';
 import type { OpenedFile } from './bridge-api.js';
 
@@ -14,12 +15,34 @@ export async function readChosenFiles(paths: string[], folder: boolean, maxBytes
   } else {
     for (const p of paths) files.push({ path: p, relativePath: basename(p) });
   }
+  // One file at a time, each checked and read through the same open handle: the size is the opened
+  // file's own (a link's target, not the link), and a device or pipe is refused before any read.
   let total = 0;
+  const opened: OpenedFile[] = [];
   for (const f of files) {
-    total += (await lstat(f.path)).size;
-    if (total > maxBytes) throw new Error(`the chosen files exceed ${Math.round(maxBytes / 1024 ** 2)} MiB`);
+    const fh = await openRegular(f.path);
+    try {
+      total += (await fh.stat()).size;
+      if (total > maxBytes) throw new Error(`the chosen files exceed ${Math.round(maxBytes / 1024 ** 2)} MiB`);
+      const bytes = await fh.readFile();
+      opened.push({ relativePath: f.relativePath, bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) });
+    } finally {
+      await fh.close().catch(() => undefined);
+    }
   }
-  return Promise.all(files.map(async (f) => ({ relativePath: f.relativePath, bytes: new Uint8Array(await readFile(f.path)) })));
+  return opened;
+}
+
+/**
+ * Opens without blocking (a FIFO would otherwise wait for a writer for ever) and refuses anything the
+ * opened handle shows is not a regular file: a device never ends, a pipe may never start. The main
+ * process is packaged on its own, so it keeps this check rather than importing the command line's.
+ */
+async function openRegular(path: string): Promise<FileHandle> {
+  const fh = await open(path, constants.O_RDONLY | constants.O_NONBLOCK);
+  if ((await fh.stat()).isFile()) return fh;
+  await fh.close().catch(() => undefined);
+  throw new Error(`${basename(path)} is not a regular file (a device, pipe or folder); choose a file saved on disk`);
 }
 
 async function walk(root: string, dir: string, out: { path: string; relativePath: string }[]): Promise<void> {

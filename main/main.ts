@@ -79,6 +79,8 @@ app.on('window-all-closed', () => app.quit());
 
 await app.whenReady();
 session.defaultSession.setPermissionRequestHandler((_contents, _permission, callback) => callback(false));
+// Synchronous permission checks (asked without a request, e.g. for device lists) are denied too.
+session.defaultSession.setPermissionCheckHandler(() => false);
 session.defaultSession.webRequest.onBeforeRequest((details, callback) => callback({ cancel: !isAllowedRequest(details.url) }));
 protocol.handle(APP_SCHEME, serveApp);
 registerBridge();

@@ -3,7 +3,7 @@
 // window with a profile folder of its own, or the URL printed when no browser is found.
 // FALCIFORM_BROWSER=none only serves and prints the URL. Ctrl-C ends everything cleanly.
 import { spawn } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { chmodSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { homedir } from 'node:os';
 import { join } from 'node:path';
@@ -39,7 +39,8 @@ function runElectron(binary) {
 
 /**
  * The browser keeps the store (IndexedDB) per origin, port included, so the served app reuses the
- * port it had last time; a free one is taken (and remembered) when that one is busy.
+ * port it had last time. When that port is busy it stops and says so: opening on another port would
+ * show an empty store, and remembering that port would lose the old store for good.
  */
 async function serve(profile) {
   const portFile = join(profile, 'port');
@@ -47,14 +48,19 @@ async function serve(profile) {
   try {
     return await startWebServer('build/renderer', Number.isInteger(last) ? last : 0);
   } catch {
-    console.warn(`Port ${last} is busy; using another one. Data stored under the old port stays there.`);
-    return startWebServer('build/renderer', 0);
+    if (!(last > 0)) throw new Error('no local port could be opened for the app');
+    console.error(`Falciform stopped: port ${last}, where this profile's stored patients live, is busy. ` +
+      `Close the program using it (see \`ss -ltnp 'sport = :${last}'\`, or an earlier Falciform still running) and start again.`);
+    process.exit(1);
   }
 }
 
 async function runServed() {
   const profile = join(dataFolder(), 'browser-profile');
-  mkdirSync(profile, { recursive: true });
+  // Owner-only: the profile holds the patients' store.
+  mkdirSync(profile, { recursive: true, mode: 0o700 });
+  chmodSync(dataFolder(), 0o700);
+  chmodSync(profile, 0o700);
   const server = await serve(profile);
   writeFileSync(join(profile, 'port'), String(server.port));
   console.log(`Falciform is served at ${server.url}`);

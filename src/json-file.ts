@@ -12,10 +12,15 @@ export function parseJsonFile(
   fail: (file: string, problem: string) => FalciformError = badFile,
 ): unknown {
   try {
-    return JSON.parse(text);
+    return JSON.parse(withoutBom(text));
   } catch (e) {
     throw fail(file, `not valid JSON (${(e as Error).message})`);
   }
+}
+
+/** Text without a leading UTF-8 byte-order mark, which some Windows editors write and JSON.parse refuses. */
+export function withoutBom(text: string): string {
+  return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
 }
 
 export function isJsonObject(x: unknown): x is Record<string, unknown> {
@@ -29,5 +34,9 @@ export function isJsonObject(x: unknown): x is Record<string, unknown> {
 export function describeJsonValue(x: unknown): string {
   if (Array.isArray(x)) return 'a list';
   if (typeof x === 'object' && x !== null) return 'an object';
-  return JSON.stringify(x) ?? String(x);
+  const shown = JSON.stringify(x) ?? String(x);
+  return shown.length > QUOTE_CHARS ? `${shown.slice(0, QUOTE_CHARS)}… (${shown.length} characters)` : shown;
 }
+
+/** How much of a value from a file an error message quotes. */
+const QUOTE_CHARS = 200;

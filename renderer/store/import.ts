@@ -18,7 +18,7 @@ import type { FalciformDb } from './db.js';
 import { ALL_FILES, NIFTI_NAME, PAIR_NAME, PAIR_PROBLEM, baseName, guessLooseFiles, textOf } from './loose-files.js';
 import { compact, ownBytes, trailId } from './record-helpers.js';
 import { dicomFilesOf, readDicomScan } from './dicom-import.js';
-import { checkMask, checkOverlap, checkPointsOnScan, type GridInfo } from './volume-checks.js';
+import { checkMask, checkOverlap, checkPointsOnScan, type GridInfo } from '../../src/segments/import-checks.js';
 import { explainWriteFailure } from './write-failure.js';
 
 /** Everything one patient's import will write, read and checked in full beforehand. */

@@ -46,6 +46,15 @@ export function optionalOption(args: ParsedArgs, name: string): string | undefin
   return typeof v === 'string' ? v : undefined;
 }
 
+/** `--max-lesions N`: the lesions-per-visit cap, a whole number ≥ 1. */
+export function maxLesionsOption(args: ParsedArgs): number | undefined {
+  const v = optionalOption(args, 'max-lesions');
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (!Number.isInteger(x) || x < 1) throw new UsageError(`--max-lesions must be a whole number ≥ 1, got "${v}"`);
+  return x;
+}
+
 export function numberOption(args: ParsedArgs, name: string, fallback: number): number {
   const v = optionalOption(args, name);
   if (v === undefined) return fallback;

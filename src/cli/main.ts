@@ -1,5 +1,5 @@
 import { CAUTION } from '../caution.js';
-import { isFalciformError } from '../errors.js';
+import { isFalciformError, oneLine } from '../errors.js';
 import { UsageError } from './args.js';
 import { commands } from './commands.js';
 import { VERSION } from '../version.js';
@@ -30,7 +30,7 @@ export async function run(argv: readonly string[]): Promise<number> {
   }
   const command = commands[name];
   if (!command) {
-    process.stderr.write(`falciform: unknown command "${name}" (see falciform --help)\n`);
+    process.stderr.write(`${oneLine(`falciform: unknown command "${name}" (see falciform --help)`)}\n`);
     return 2;
   }
   try {
@@ -38,11 +38,11 @@ export async function run(argv: readonly string[]): Promise<number> {
     return 0;
   } catch (e) {
     if (e instanceof UsageError) {
-      process.stderr.write(`falciform ${name}: ${e.message}\nusage: ${command.usage}\n`);
+      process.stderr.write(`${oneLine(`falciform ${name}: ${e.message}`)}\nusage: ${command.usage}\n`);
       return 2;
     }
     if (isFalciformError(e)) {
-      process.stderr.write(`falciform ${name}: ${e.message}\n`);
+      process.stderr.write(`${oneLine(`falciform ${name}: ${e.message}`)}\n`);
       return 3;
     }
     throw e;

@@ -1,12 +1,13 @@
 import { randomBytes } from 'node:crypto';
-import { open, readFile, rename, unlink, writeFile } from 'node:fs/promises';
+import { rename, unlink, writeFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { createGunzip, gzipSync } from 'node:zlib';
-import { badFile } from '../errors.js';
+import { badFile, isFalciformError } from '../errors.js';
 import type { Volume } from '../volume/volume.js';
 import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti } from '../volume/nifti-read.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../volume/nifti-header.js';
 import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
+import { checkOutputFile, openRegularFile } from './regular-file.js';
 
 /**
  * node:zlib inflater for readNifti, in one pass on libuv's thread pool: the output buffer is sized to
@@ -51,6 +52,7 @@ export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
   });
 
 function cannotRead(path: string, e: unknown) {
+  if (isFalciformError(e)) return e;
   const code = (e as { code?: string }).code;
   const why =
     code === 'ENOENT' ? 'no such file' :
@@ -64,7 +66,7 @@ function cannotRead(path: string, e: unknown) {
 async function readPrefix(path: string, limit: number): Promise<Uint8Array> {
   let fh;
   try {
-    fh = await open(path, 'r');
+    fh = await openRegularFile(path);
     const { size } = await fh.stat();
     if (!(limit < size)) {
       // View the Buffer's memory rather than copying the whole file.
@@ -155,6 +157,7 @@ export async function saveVolume(path: string, volume: Volume, datatype: WriteDa
 
 /** Writes beside the final name and renames, so a failure never leaves a half-written file. */
 export async function writeFileAtomic(path: string, bytes: Uint8Array): Promise<void> {
+  await checkOutputFile(path, []);
   const tmp = join(dirname(path), `.${basename(path)}.${randomBytes(6).toString('hex')}.tmp`);
   try {
     await writeFile(tmp, bytes);
@@ -169,7 +172,12 @@ export async function writeFileAtomic(path: string, bytes: Uint8Array): Promise<
 /** Reads a UTF-8 text file (JSON manifests, landmark sets, marks). */
 export async function readTextFile(path: string): Promise<string> {
   try {
-    return await readFile(path, 'utf8');
+    const fh = await openRegularFile(path);
+    try {
+      return await fh.readFile('utf8');
+    } finally {
+      await fh.close().catch(() => undefined);
+    }
   } catch (e) {
     throw cannotRead(path, e);
   }

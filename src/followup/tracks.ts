@@ -1,7 +1,7 @@
 import type { Vec3 } from '../geometry/mat4.js';
 import { distance } from '../geometry/vec3.js';
 import { badInput } from '../errors.js';
-import { assignWithGate } from './hungarian.js';
+import { assignCandidates, type Candidates } from './hungarian.js';
 import { compareIds } from './ids.js';
 
 /**
@@ -177,15 +177,26 @@ export function buildTracks(visits: readonly TrackVisitInput[], overrides: reado
     const linkedTracks = new Set(how.keys());
     const rows = lesions.map((_, n) => n).filter((n) => !excluded[n]);
     const cols = states.map((_, t) => t).filter((t) => states[t].mergedInto === null && !linkedTracks.has(t));
-    const cost = rows.map((n) =>
-      cols.map((t) => {
-        if (forbidden.has(`${n}/${t}`)) return Infinity;
-        const d = distance(lesions[n].centreMm, states[t].ref.centre);
+    // Only pairs within their gate are candidates; most pairs of a many-lesion visit are far apart
+    // on some axis, so they cost one comparison and no square root.
+    const candidates: Candidates[] = [];
+    for (const n of rows) {
+      const own: Candidates = { cols: [], costs: [] };
+      const a = lesions[n].centreMm;
+      for (let c = 0; c < cols.length; c++) {
+        const t = cols[c];
+        if (forbidden.size > 0 && forbidden.has(`${n}/${t}`)) continue;
+        const b = states[t].ref.centre;
         const g = gateMm(lesions[n].longestAxialMm, states[t].ref.sizeMm, visit.slackMm);
-        return d <= g ? d / g : Infinity;
-      }),
-    );
-    for (const [r, c] of assignWithGate(cost, UNPAIRED_COST)) {
+        if (Math.abs(a[0] - b[0]) > g || Math.abs(a[1] - b[1]) > g || Math.abs(a[2] - b[2]) > g) continue;
+        const d = distance(a, b);
+        if (d > g) continue;
+        own.cols.push(c);
+        own.costs.push(d / g);
+      }
+      candidates.push(own);
+    }
+    for (const [r, c] of assignCandidates(candidates, cols.length, UNPAIRED_COST)) {
       lesionTrack[rows[r]] = cols[c];
       how.set(cols[c], 'matched');
     }
@@ -212,12 +223,20 @@ export function buildTracks(visits: readonly TrackVisitInput[], overrides: reado
 
     // 4. Merges: an unpaired track seen last visit whose neighbour's lesion now covers both.
     const mergesInto = new Map<number, number[]>();
+    // Each paired track's lesions, gathered once: the loop below asks for every pair of tracks.
+    const members = new Map<number, number[]>();
+    lesionTrack.forEach((t, n) => {
+      if (t < 0) return;
+      const list = members.get(t);
+      if (list) list.push(n);
+      else members.set(t, [n]);
+    });
     for (const b of cols) {
       if (how.has(b) || states[b].lastPresent !== k - 1) continue;
       const refB = states[b].ref;
       let bestLesion = -1, bestD = Infinity;
       for (const a of how.keys()) {
-        const own = lesionsOf(a);
+        const own = members.get(a) ?? [];
         if (own.length !== 1) continue;
         const l = lesions[own[0]];
         if (forbidden.has(`${own[0]}/${b}`)) continue;
@@ -257,8 +276,14 @@ export function buildTracks(visits: readonly TrackVisitInput[], overrides: reado
       lesionTrack[n] = t;
       how.set(t, 'first');
     }
+    const final = new Map<number, number[]>();
+    lesionTrack.forEach((t, n) => {
+      const list = final.get(t);
+      if (list) list.push(n);
+      else final.set(t, [n]);
+    });
     states.forEach((s, t) => {
-      const own = lesionsOf(t);
+      const own = final.get(t) ?? [];
       if (own.length > 0) {
         own.sort((x, y) => lesions[y].longestAxialMm - lesions[x].longestAxialMm || compareIds(lesions[x].id, lesions[y].id));
         s.track.visits[k] = { status: 'present', lesions: own.map((n) => lesions[n].id), how: how.get(t) ?? 'matched' };
@@ -268,7 +293,7 @@ export function buildTracks(visits: readonly TrackVisitInput[], overrides: reado
         return;
       }
       const into = mergedNow.get(t) ?? s.mergedInto;
-      if (into !== null && into !== undefined && lesionsOf(into).length > 0) {
+      if (into !== null && into !== undefined && final.has(into)) {
         s.track.visits[k] = { status: 'merged', lesions: [], mergedInto: states[into].track.id };
       } else if (visit.inView && !visit.inView(s.ref.centre)) {
         s.track.visits[k] = { status: 'not-evaluable', lesions: [] };

@@ -1,3 +1,4 @@
+import { withoutBom } from '../json-file.js';
 import { z } from 'zod';
 import { badFile } from '../errors.js';
 import { NEW_LESION_CALLS } from '../followup/reader-calls.js';
@@ -131,7 +132,7 @@ export type ProposedResection = NonNullable<Manifest['resection']>;
 export function parseManifest(text: string, file: string): Manifest {
   let json: unknown;
   try {
-    json = JSON.parse(text);
+    json = JSON.parse(withoutBom(text));
   } catch (e) {
     throw badFile(file, `is not valid JSON (${(e as Error).message})`);
   }

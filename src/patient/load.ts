@@ -54,6 +54,8 @@ export interface PatientFiles {
 export interface LoadOptions {
   /** Keep each visit's segment map (large: one byte per voxel). */
   keepSegmentMaps?: boolean;
+  /** Lesions per visit above which a mask is refused (default DEFAULT_MAX_LESIONS). */
+  maxLesions?: number;
 }
 
 export async function loadPatientFrom(
@@ -105,7 +107,7 @@ async function loadVisit(
   let analysis: VisitAnalysis;
   let volumetry: VisitVolumetry;
   try {
-    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions });
+    analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm: manifest.marginMm, lesionFile: files.lesions, scanFile: files.scan, segmentsFile: files.segments ?? files.liver, maxLesions: opts.maxLesions });
     // Here the segment map and lesion mask are still in hand; later steps keep only plain results.
     volumetry = visitVolumetry(segments, lesionMask ?? (marks && analysis.lesions.filter((l) => l.source === 'mark')));
     if (visitMap.source === 'built' && v.caudate === undefined) volumetry = { ...volumetry, caudateInPlaneSegments: true };
@@ -119,7 +121,7 @@ async function loadVisit(
   let viable: { components: ViableComponent[] } | undefined;
   if (v.viable !== undefined) {
     const mask = await volume('viable', v.viable);
-    const found = lesionsFromMask(mask, files.viable);
+    const found = lesionsFromMask(mask, files.viable, opts.maxLesions);
     viable = {
       components: found.lesions.map((lv, n) => {
         const m = measureMaskLesion(`V${n + 1}`, mask, lv, null);

@@ -8,10 +8,11 @@ import type { Volume } from '../volume/volume.js';
  * label values the analysis read (an imported map keeps its own values and scaling bit for bit; a
  * built one has the default scheme's). Gzip it for a .nii.gz.
  */
-export function segmentMapNifti(map: SegmentMap, visitId: string): Uint8Array {
+export function segmentMapNifti(map: SegmentMap, visitId: string, demo = false): Uint8Array {
   const labels = map.labels;
   return encodeNifti(labels, exportDatatype(labels), {
-    description: `Falciform ${VERSION} segment map ${visitId}; not a medical device`,
+    // The 80-byte descrip field: a demo patient's map says so wherever the file travels.
+    description: `Falciform ${VERSION} segment map ${visitId}${demo ? ' DEMO' : ''}; not a medical device`,
   });
 }
 

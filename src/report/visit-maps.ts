@@ -1,5 +1,5 @@
 import type { Manifest } from '../manifest/manifest.js';
-import { loadPatientFrom, type LoadedVisit, type PatientFiles } from '../patient/load.js';
+import { loadPatientFrom, type LoadedVisit, type LoadOptions, type PatientFiles } from '../patient/load.js';
 import type { SegmentMap } from '../segments/segment-map.js';
 
 /**
@@ -12,10 +12,11 @@ export async function loadVisitWithMap(
   manifestFile: string,
   source: PatientFiles,
   visitId: string,
+  opts: LoadOptions = {},
 ): Promise<{ visit: LoadedVisit; segmentMap: SegmentMap }> {
   const mv = manifest.visits.find((v) => v.id === visitId);
   if (!mv) throw new Error(`visit ${visitId} is not in the manifest`);
-  const one = await loadPatientFrom({ ...manifest, visits: [mv] }, manifestFile, source, { keepSegmentMaps: true });
+  const one = await loadPatientFrom({ ...manifest, visits: [mv] }, manifestFile, source, { ...opts, keepSegmentMaps: true });
   const { segmentMap, ...visit } = one.visits[0];
   return { visit, segmentMap: segmentMap! };
 }

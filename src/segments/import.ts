@@ -17,6 +17,11 @@ export function importSegmentMap(
   counted?: Map<number, number>,
 ): { map: SegmentMap; unknownLabels: number[]; warnings: string[] } {
   const counts = counted ?? countLabelValues(labels);
+  // A value the scheme does not know is read as background with a warning; a non-finite one means
+  // the file is not a label map at all.
+  for (const value of counts.keys()) {
+    if (!Number.isFinite(value)) throw badFile(file, `holds the value ${value}; a segment map must hold whole-number labels from 0 up`);
+  }
   const chosen = scheme === 'default' ? defaultScheme(counts.has(9)) : scheme;
   const warnings: string[] = [];
   const unknownLabels: number[] = [];

@@ -1,6 +1,7 @@
 import { badInput } from '../errors.js';
 import type { Vec3 } from '../geometry/mat4.js';
 import { lesionsFromMask } from '../lesions/components.js';
+import { checkLiverVolume, checkOverlap, checkSpacing, gridOf } from '../segments/import-checks.js';
 import type { Lesion } from '../lesions/lesion.js';
 import { isMarginAlert, markMargin, maskLesionMargin, type MarginResult } from '../lesions/margin.js';
 import { lesionFromMark, type Mark } from '../lesions/marks.js';
@@ -26,6 +27,10 @@ export interface VisitInput {
   marginMm?: number;
   /** File names for messages. */
   lesionFile?: string;
+  scanFile?: string;
+  segmentsFile?: string;
+  /** Lesions per visit above which the mask is refused (default DEFAULT_MAX_LESIONS). */
+  maxLesions?: number;
 }
 
 /** One lesion of a visit: the contract's fields first, then extras. */
@@ -72,10 +77,20 @@ export function analyzeVisit(input: VisitInput): VisitAnalysis {
   const map = input.segments;
   const warnings: string[] = [];
   const lesions: LesionResult[] = [];
+  // The import checks the app's import makes, so the command line accepts no less sound input.
+  const scanName = input.scanFile ?? 'scan';
+  const mapName = input.segmentsFile ?? 'segment map';
+  warnings.push(...checkSpacing(input.scan, scanName), ...checkSpacing(map.labels, mapName));
+  checkOverlap(gridOf(map.labels, mapName), gridOf(input.scan, scanName));
+  if (input.lesionMask) {
+    const maskName = input.lesionFile ?? 'lesion mask';
+    warnings.push(...checkSpacing(input.lesionMask, maskName));
+    checkOverlap(gridOf(input.lesionMask, maskName), gridOf(input.scan, scanName));
+  }
 
   if (input.lesionMask) {
     const mask = input.lesionMask;
-    const found = lesionsFromMask(mask, input.lesionFile);
+    const found = lesionsFromMask(mask, input.lesionFile, input.maxLesions);
     if (found.kind === 'empty') warnings.push(`${input.lesionFile ?? 'lesion mask'}: holds no lesion voxels`);
     found.lesions.forEach((lv, n) => {
       const id = `L${n + 1}`;
@@ -106,6 +121,7 @@ export function analyzeVisit(input: VisitInput): VisitAnalysis {
   // Every labelled voxel belongs to exactly one segment, so the liver is their sum; this spares a
   // second pass over the whole map.
   const liverMl = segments.reduce((sum, s) => sum + s.volumeMl, 0);
+  warnings.push(...checkLiverVolume(liverMl, mapName));
   return { segments, liverVolumeMl: liverMl, lesions, warnings };
 }
 

@@ -1,3 +1,4 @@
+import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { assignRows, assignWithGate } from '../../src/followup/hungarian.js';
 import { buildTracks, gateMm, type Override, type TrackVisitInput } from '../../src/followup/tracks.js';
@@ -59,6 +60,43 @@ describe('optimal assignment (Hungarian)', () => {
     // {0-0, 1 unpaired, column 1 unpaired} = 0.1 + 0.5 + 0.5 = 1.1 beats {0-1, 1-0} = 0.99 + 0.5 = 1.49.
     expect(assignWithGate([[0.1, 0.99], [0.5, Infinity]], 0.5)).toEqual([[0, 0]]);
     expect(assignWithGate([], 0.5)).toEqual([]);
+  });
+
+  it('gives the least total that SciPy linear_sum_assignment finds on the padded square (run live)', () => {
+    // Clustered lesions so that gated blocks chain into large ones, as in a many-lesion visit.
+    let seed = 7;
+    const rand = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
+    const problems: number[][][] = [];
+    for (let trial = 0; trial < 6; trial++) {
+      const n = 20 + Math.floor(rand() * 40), m = 20 + Math.floor(rand() * 40);
+      const at = (count: number) => Array.from({ length: count }, () => [rand() * 60, rand() * 60]);
+      const rows = at(n), cols = at(m);
+      problems.push(rows.map(([x, y]) => cols.map(([u, v]) => {
+        const d = Math.hypot(x - u, y - v) / 12;
+        return d <= 1 ? d : Infinity;
+      })));
+    }
+    const py = [
+      'import json, sys, numpy as np',
+      'from scipy.optimize import linear_sum_assignment',
+      'out = []',
+      'for c in json.load(sys.stdin):',
+      '    c = np.array(c, dtype=float); n, m = c.shape',
+      '    sq = np.full((n + m, n + m), 1e6); sq[:n, :m] = np.where(c < 0, 1e6, c)',
+      '    sq[np.arange(n), m + np.arange(n)] = 0.5; sq[n + np.arange(m), np.arange(m)] = 0.5; sq[n:, m:] = 0',
+      '    r, k = linear_sum_assignment(sq); out.append(float(sq[r, k].sum()))',
+      'print(json.dumps(out))',
+    ].join('\n');
+    const input = JSON.stringify(problems.map((c) => c.map((row) => row.map((x) => (Number.isFinite(x) ? x : -1)))));
+    const r = spawnSync('/usr/bin/python3', ['-c', py], { input, encoding: 'utf8' });
+    expect(r.status, r.stderr).toBe(0);
+    const scipy = JSON.parse(r.stdout) as number[];
+    problems.forEach((cost, t) => {
+      const pairs = assignWithGate(cost, 0.5);
+      expect(new Set(pairs.map(([, c]) => c)).size).toBe(pairs.length);
+      const total = pairs.reduce((s, [i, j]) => s + cost[i][j], 0) + 0.5 * (cost.length + cost[0].length - 2 * pairs.length);
+      expect(total).toBeCloseTo(scipy[t], 9);
+    });
   });
 });
 

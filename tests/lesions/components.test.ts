@@ -80,3 +80,41 @@ describe('lesions from a multi-label mask', () => {
     expect(isFalciformError(err) && err.kind === 'bad-file' && err.message).toMatch(/^probabilities\.nii\.gz: holds the non-integer value 0\.25/);
   });
 });
+
+describe('bounded lesion masks', () => {
+  it('splits the one-voxel-in-eight lattice into one lesion per voxel, in storage order', () => {
+    // Voxels at even (i, j, k) are two steps apart on some axis, so no two are 26-neighbours (the
+    // definition of 26-connectivity, common practice): the most components a grid can hold.
+    const dims: Dims = [9, 8, 7];
+    const d = new Uint8Array(9 * 8 * 7);
+    const expected: number[] = [];
+    for (let k = 0; k < 7; k += 2) for (let j = 0; j < 8; j += 2) for (let i = 0; i < 9; i += 2) expected.push(i + 9 * (j + 8 * k));
+    for (const n of expected) d[n] = 1;
+    const found = lesionsFromMask(mask(dims, d));
+    expect(found.lesions.map((l) => [...l.voxels])).toEqual(expected.map((n) => [n]));
+  });
+
+  it('joins components that meet late (a U shape) under the first voxel\'s place in the order', () => {
+    const dims: Dims = [5, 4, 1];
+    // Two arms from row 0 joined at row 3; a lone voxel at (2, 1) between them comes second.
+    const rows = ['1.1.1', '1...1', '1...1', '11111'].join('');
+    const d = Uint8Array.from([...rows].map((c) => (c === '1' ? 1 : 0)));
+    const found = lesionsFromMask(mask(dims, d));
+    expect(found.lesions.map((l) => l.voxels.length)).toEqual([11, 1]);
+    expect([...found.lesions[1].voxels]).toEqual([2]);
+  });
+
+  it('refuses a mask with more lesions than the cap, naming the file and the count', () => {
+    const d = new Uint8Array(64);
+    for (const n of [0, 2, 4, 6, 16]) d[n] = 1;
+    expect(lesionsFromMask(mask([8, 4, 2], d), 'm.nii.gz', 5).lesions).toHaveLength(5);
+    expect(() => lesionsFromMask(mask([8, 4, 2], d), 'm.nii.gz', 4)).toThrow(/^m\.nii\.gz: holds 5 lesions .*above the cap of 4 lesions per visit/);
+  });
+
+  it('refuses a scan given as a lesion mask: negative values, or more distinct values than the cap', () => {
+    const ct = new Int16Array([-1000, 40, 60, 0, 0, 0, 0, 0]);
+    expect(() => lesionsFromMask(mask([2, 2, 2], ct, 'int16'), 'scan.nii.gz')).toThrow(/^scan\.nii\.gz: holds the negative value -1000: an image, not a label mask/);
+    const many = Int16Array.from({ length: 64 }, (_, n) => n + 1);
+    expect(() => lesionsFromMask(mask([4, 4, 4], many, 'int16'), 'mr.nii.gz', 50)).toThrow(/^mr\.nii\.gz: holds more than 50 distinct label values: an image, not a label mask/);
+  });
+});

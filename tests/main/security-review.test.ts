@@ -34,6 +34,7 @@ const wired = vi.hoisted(() => ({
   privilegedSchemes: [] as { scheme: string; privileges: Record<string, boolean> }[],
   protocolHandlers: new Map<string, (request: Request) => Promise<Response>>(),
   permissionHandler: null as null | ((contents: unknown, permission: string, callback: (granted: boolean) => void) => void),
+  permissionCheck: null as null | ((contents: unknown, permission: string, origin: string, details: unknown) => boolean),
   beforeRequest: null as null | ((details: { url: string }, callback: (r: { cancel: boolean }) => void) => void),
   ipcHandlers: new Map<string, (event: unknown, raw: unknown) => Promise<unknown>>(),
   windows: [] as { options: unknown; loadedUrl: string | null; webContents: unknown }[],
@@ -81,6 +82,7 @@ vi.mock('electron', () => {
     session: {
       defaultSession: {
         setPermissionRequestHandler: (h: typeof wired.permissionHandler) => { wired.permissionHandler = h; },
+        setPermissionCheckHandler: (h: typeof wired.permissionCheck) => { wired.permissionCheck = h; },
         webRequest: { onBeforeRequest: (h: typeof wired.beforeRequest) => { wired.beforeRequest = h; } },
       },
     },
@@ -166,6 +168,7 @@ describe('main process: navigation, new windows, permissions and requests', () =
       const answers: boolean[] = [];
       wired.permissionHandler!({}, permission, (granted) => answers.push(granted));
       expect(answers, permission).toEqual([false]);
+      expect(wired.permissionCheck!({}, permission, 'falciform://app', {}), permission).toBe(false);
     }
   });
 

@@ -82,3 +82,20 @@ describe('scheme files (source: contracts.md, segment scheme)', () => {
     }
   });
 });
+
+describe('import checks shared by the app and the command line', () => {
+  it('refuses NaN labels and a map away from its scan; warns of implausible voxel sizes and liver volume', async () => {
+    const { checkLiverVolume, checkOverlap, checkSpacing, gridOf } = await import('../../src/segments/import-checks.js');
+    const nan = makeVolume([3, 1, 1], Float32Array.from([1, NaN, 2]), EYE, 'float32');
+    expect(() => importSegmentMap(nan, 'default', 'n.nii')).toThrow(/^n\.nii: holds the value NaN/);
+    const metre = makeVolume([2, 2, 2], new Uint8Array(8), [1000, 0, 0, 0, 0, 1000, 0, 0, 0, 0, 1000, 0, 0, 0, 0, 1], 'uint8');
+    expect(checkSpacing(metre, 'm.nii')[0]).toMatch(/^m\.nii: voxel sizes 1\.00e\+3 × .* outside the plausible/);
+    // 10 m away: the map's box and the scan's box share no point.
+    const far = makeVolume([2, 2, 2], new Uint8Array(8), [1, 0, 0, 10_000, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1], 'uint8');
+    const scan = makeVolume([2, 2, 2], new Int16Array(8), EYE, 'int16');
+    expect(() => checkOverlap(gridOf(far, 'far.nii'), gridOf(scan, 'scan.nii'))).toThrow(/^far\.nii: does not overlap the scan scan\.nii/);
+    expect(checkLiverVolume(1_000_000, 'm.nii')[0]).toMatch(/liver volume 1000000 mL is above the plausible 6000 mL/);
+    expect(checkLiverVolume(1500, 'm.nii')).toEqual([]);
+    expect(() => checkLiverVolume(Infinity, 'm.nii')).toThrow(/liver volume of Infinity/);
+  });
+});

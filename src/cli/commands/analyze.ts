@@ -6,19 +6,19 @@ import { visitSegmentMap } from '../../patient/visit-map.js';
 import type { SegmentMap } from '../../segments/segment-map.js';
 import { analyzeVisit, DEFAULT_MARGIN_MM, type LesionResult, type VisitAnalysis } from '../../visit/analyze.js';
 import type { Volume } from '../../volume/volume.js';
-import { numberOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
+import { maxLesionsOption, numberOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { loadVolume, readTextFile } from '../node-io.js';
 
 const USAGE =
   'falciform analyze --scan FILE (--segments FILE [--scheme FILE] | --liver FILE --landmarks FILE) ' +
-  '(--lesions FILE and/or --marks FILE) [--margin-mm N] [--json]';
+  '(--lesions FILE and/or --marks FILE) [--margin-mm N] [--max-lesions N] [--json]';
 
 export const analyze: Command = {
   summary: 'one visit: segment volumes, lesions, their measures, segments and margin alerts',
   usage: USAGE,
   async run(argv) {
-    const args = parseArgs(argv, ['scan', 'segments', 'scheme', 'liver', 'landmarks', 'lesions', 'marks', 'margin-mm'], ['json']);
+    const args = parseArgs(argv, ['scan', 'segments', 'scheme', 'liver', 'landmarks', 'lesions', 'marks', 'margin-mm', 'max-lesions'], ['json']);
     if (args.positional.length > 0) throw new UsageError(`unexpected argument "${args.positional[0]}"`);
     const scanFile = requireOption(args, 'scan');
     const segmentsFile = optionalOption(args, 'segments');
@@ -48,7 +48,7 @@ export const analyze: Command = {
     const segments = mapLoaded.map;
     const lesionMask = maskLoaded !== undefined ? keep(maskLoaded, warnings) : undefined;
     const marks = marksText !== undefined ? parseMarks(marksText, marksFile as string) : undefined;
-    const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile });
+    const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile, scanFile, segmentsFile: segmentsFile ?? liverFile, maxLesions: maxLesionsOption(args) });
     analysis.warnings.unshift(...warnings);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(analysis))}\n`);
     else process.stdout.write(summary(analysis, marginMm));

@@ -2,21 +2,21 @@ import { CAUTION } from '../../caution.js';
 import { bestResponseText } from '../../followup/best-response.js';
 import type { FollowupResult, VisitFollowup } from '../../followup/followup.js';
 import { targetSumText } from '../../followup/response.js';
-import { parseArgs, UsageError } from '../args.js';
+import { maxLesionsOption, parseArgs, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { followupOfPatient, loadPatient, type LoadedPatient } from '../patient.js';
 import { READER_OPTIONS, READER_USAGE, withReaderOptions } from '../reader-options.js';
 
-const USAGE = `falciform followup MANIFEST [--json] ${READER_USAGE}`;
+const USAGE = `falciform followup MANIFEST [--max-lesions N] [--json] ${READER_USAGE}`;
 
 export const followup: Command = {
   summary: "a patient's visits: lesion tracks, response per visit, burden per segment per visit",
   usage: USAGE,
   async run(argv) {
-    const args = parseArgs(argv, READER_OPTIONS, ['json']);
+    const args = parseArgs(argv, [...READER_OPTIONS, 'max-lesions'], ['json']);
     if (args.positional.length !== 1) throw new UsageError(args.positional.length === 0 ? 'name the study manifest' : `unexpected argument "${args.positional[1]}"`);
     const manifestFile = args.positional[0];
-    const loaded = await loadPatient(manifestFile);
+    const loaded = await loadPatient(manifestFile, { maxLesions: maxLesionsOption(args) });
     const manifest = withReaderOptions(loaded.manifest, args);
     const patient: LoadedPatient = {
       ...loaded,

@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
-import { mkdir, rename, unlink } from 'node:fs/promises';
-import { join } from 'node:path';
+import { mkdir, rename, stat, unlink } from 'node:fs/promises';
+import { dirname, join, resolve } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { CAUTION } from '../../caution.js';
 import { badFile } from '../../errors.js';
@@ -16,35 +16,39 @@ import { utf8 } from '../../report/csv.js';
 import type { ReportInput } from '../../report/input.js';
 import { keyedPseudonym, pseudonymNote, randomPseudonym, type Pseudonym } from '../../report/pseudonym.js';
 import { customSchemeJson } from '../../report/scheme-export.js';
+import { dateShiftDays, deidentifyReport } from '../../report/deidentify.js';
 import { segmentMapFileName, segmentMapNifti } from '../../report/segment-map-export.js';
 import { loadVisitWithMap } from '../../report/visit-maps.js';
-import { optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
+import { maxLesionsOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { readTextFile, writeFileAtomic } from '../node-io.js';
 import { diskFiles, followupOfPatient } from '../patient.js';
 import { embeddedFontCss } from '../fonts.js';
 import { findBrowser, noBrowserReason, printToPdf } from '../print-pdf.js';
+import { checkOutputFolder } from '../regular-file.js';
 
 const USAGE =
-  'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key KEY] [--resection NAME] [--no-pdf]';
+  'falciform report MANIFEST --out DIR [--page A4|Letter] [--pseudonymise] [--pseudonym-key-file FILE | $FALCIFORM_PSEUDONYM_KEY] [--resection NAME] [--max-lesions N] [--no-pdf]';
 
 export const report: Command = {
   summary: 'board summary (HTML, and PDF where Chromium or Chrome is installed), case-form CSV, segment maps as NIfTI',
   usage: USAGE,
   async run(argv) {
-    const args = parseArgs(argv, ['out', 'page', 'pseudonym-key', 'resection'], ['pseudonymise', 'no-pdf']);
+    const args = parseArgs(argv, ['out', 'page', 'pseudonym-key', 'pseudonym-key-file', 'resection', 'max-lesions'], ['pseudonymise', 'no-pdf']);
     if (args.positional.length !== 1) throw new UsageError(args.positional.length === 0 ? 'name the study manifest' : `unexpected argument "${args.positional[1]}"`);
     const manifestFile = args.positional[0];
     const outDir = requireOption(args, 'out');
     const page = pageOption(optionalOption(args, 'page'));
-    const key = optionalOption(args, 'pseudonym-key');
+    const key = await pseudonymKey(optionalOption(args, 'pseudonym-key'), optionalOption(args, 'pseudonym-key-file'), args.options.has('pseudonymise'));
     const resection = optionalOption(args, 'resection');
+    const maxLesions = maxLesionsOption(args);
     if (resection !== undefined && !resectionPreset(resection)) {
       throw new UsageError(`unknown resection "${resection}"; known: ${RESECTION_PRESETS.map((p) => p.id).join(', ')}`);
     }
 
     const manifest = parseManifest(await readTextFile(manifestFile), manifestFile);
     const source = diskFiles(manifestFile);
+    await checkOutputFolder(outDir);
     try {
       await mkdir(outDir, { recursive: true });
     } catch (e) {
@@ -62,9 +66,9 @@ export const report: Command = {
     // One visit at a time: analyse it, write its segment map, keep only the analysis.
     const visits: LoadedVisit[] = [];
     for (const mv of manifest.visits) {
-      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id);
+      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id, { maxLesions });
       visits.push(visit);
-      await put(segmentMapFileName(mv.id), gzipSync(segmentMapNifti(segmentMap, mv.id)));
+      await put(segmentMapFileName(mv.id), gzipSync(segmentMapNifti(segmentMap, mv.id, manifest.patient.demo === true)));
       const scheme = customSchemeJson(segmentMap.scheme);
       if (scheme) await put(`segments-${mv.id}.scheme.json`, utf8(scheme));
     }
@@ -79,14 +83,29 @@ export const report: Command = {
 
     const pseudonym: Pseudonym | null =
       key !== undefined ? await keyedPseudonym(manifest.patient.id, key) : args.options.has('pseudonymise') ? randomPseudonym() : null;
-    const input: ReportInput = {
+    const whole: ReportInput = {
       manifest,
       visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
       followup,
       remnant,
     };
-    if (remnant) remnant.warnings.forEach((w) => notes.push(`remnant: ${w}`));
-    const summary = buildBoardSummary(input, { madeAt: new Date(), pseudonym });
+    // Pseudonymised: dates shifted per patient, paths cut to the study, the id replaced everywhere.
+    const deidentified = pseudonym
+      ? deidentifyReport(whole, {
+        patientId: manifest.patient.id,
+        pseudonymId: pseudonym.id,
+        studyFolder: dirname(resolve(manifestFile)),
+        shiftDays: await dateShiftDays(pseudonym.id),
+      })
+      : null;
+    const input = deidentified?.input ?? whole;
+    if (deidentified) notes.push(deidentified.note);
+    if (input.remnant) input.remnant.warnings.forEach((w) => notes.push(`remnant: ${w}`));
+    const built = buildBoardSummary(input, { madeAt: new Date(), pseudonym });
+    // The page states what a pseudonymised copy keeps: the dates are shifted, paths cut.
+    const summary = deidentified && built.patient.pseudonymNote
+      ? { ...built, patient: { ...built.patient, pseudonymNote: `${built.patient.pseudonymNote} ${deidentified.note}` } }
+      : built;
     const htmlPath = join(outDir, 'board-summary.html');
     await put('board-summary.html', utf8(boardDocument(summary, page, embeddedFontCss())));
     await put('case-form.csv', utf8(caseFormCsv(caseFormRows(input, pseudonym?.id ?? manifest.patient.id))));
@@ -123,3 +142,24 @@ function pageOption(v: string | undefined): PageSize {
   return found;
 }
 
+
+/**
+ * The pseudonym key: from a file only its owner can read, or the FALCIFORM_PSEUDONYM_KEY environment
+ * variable (with --pseudonymise); a key given on the command line still works but shows in the process list, so it warns.
+ */
+async function pseudonymKey(fromArgument: string | undefined, file: string | undefined, pseudonymise: boolean): Promise<string | undefined> {
+  if (fromArgument !== undefined) {
+    process.stderr.write('warning: --pseudonym-key shows in the process list to every user of this machine; use --pseudonym-key-file or FALCIFORM_PSEUDONYM_KEY\n');
+    return fromArgument;
+  }
+  if (file !== undefined) {
+    const mode = (await stat(file).catch(() => null))?.mode;
+    if (mode !== undefined && (mode & 0o077) !== 0) throw badFile(file, 'the pseudonym key file is readable by other users; make it owner-only (chmod 600)');
+    const key = (await readTextFile(file)).trim();
+    if (!key) throw badFile(file, 'the pseudonym key file is empty');
+    return key;
+  }
+  // The variable keys a pseudonymised report; it does not pseudonymise a report on its own.
+  const env = process.env.FALCIFORM_PSEUDONYM_KEY;
+  return pseudonymise && env ? env : undefined;
+}

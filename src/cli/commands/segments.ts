@@ -7,6 +7,7 @@ import { liverVolumeMl, segmentVolumes } from '../../segments/volumes.js';
 import { UsageError, optionalOption, parseArgs, requireOption } from '../args.js';
 import type { Command } from '../commands.js';
 import { loadVolume, readTextFile, saveVolume } from '../node-io.js';
+import { checkOutputFile } from '../regular-file.js';
 
 /** QC numbers for output: correlations to 6 decimals, distances to 0.01 mm. */
 function tidyQc(qc: LandmarkQc) {
@@ -32,6 +33,7 @@ export const segments: Command = {
     const referenceFile = optionalOption(args, 'reference');
     const json = args.options.has('json');
 
+    await checkOutputFile(outFile, [liverFile, landmarkFile, caudateFile, referenceFile]);
     // Read the small files first so a typo there fails before a large image is loaded.
     const landmarks = parseLandmarks(await readTextFile(landmarkFile), landmarkFile);
     const reference = referenceFile ? parseReferenceSets(await readTextFile(referenceFile), referenceFile) : undefined;

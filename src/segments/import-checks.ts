@@ -1,10 +1,15 @@
-import { badFile } from '../../src/errors.js';
-import { invertAffine, transformPoint, type Vec3 } from '../../src/geometry/mat4.js';
-import type { VolumeRole } from '../../src/model/records.js';
-import { importSegmentMap } from '../../src/segments/import.js';
-import { countLabelValues } from '../../src/segments/label-counts.js';
-import type { SegmentScheme } from '../../src/segments/segment-map.js';
-import { valueAt, type Volume } from '../../src/volume/volume.js';
+import { badFile } from '../errors.js';
+import { invertAffine, transformPoint, type Vec3 } from '../geometry/mat4.js';
+import type { VolumeRole } from '../model/records.js';
+import { importSegmentMap } from './import.js';
+import { countLabelValues } from './label-counts.js';
+import type { SegmentScheme } from './segment-map.js';
+import { valueAt, type Volume } from '../volume/volume.js';
+
+/**
+ * The checks an import makes, in the core once: the app's import and the command line both call
+ * them, so neither accepts what the other refuses.
+ */
 
 /** A stored volume's grid: enough to place points and boxes in world space without its voxels. */
 export interface GridInfo {
@@ -83,3 +88,35 @@ function worldBox(g: GridInfo): { min: number[]; max: number[] } {
 
 /** Grid size along axis c; a 2-D image has one slice. */
 const extent = (g: GridInfo, c: number) => g.dims[c] ?? 1;
+
+/** Voxel sizes of a CT or MR scan of the abdomen lie well inside this range, mm (common practice). */
+export const PLAUSIBLE_SPACING_MM = [0.05, 20] as const;
+/** A liver above this volume is implausible (adult livers are about 1–3 L; common practice). */
+export const PLAUSIBLE_LIVER_ML = 6000;
+
+/** Voxel sizes must be finite and above zero; outside the plausible range they are warned about. */
+export function checkSpacing(volume: Volume, file: string): string[] {
+  const s = volume.spacingMm;
+  if (!s.every((x) => Number.isFinite(x) && x > 0)) {
+    throw badFile(file, `has voxel sizes ${s.map(String).join(' × ')} mm; each must be a finite length above 0`);
+  }
+  const [lo, hi] = PLAUSIBLE_SPACING_MM;
+  if (s.some((x) => x < lo || x > hi)) {
+    return [`${file}: voxel sizes ${s.map((x) => x.toPrecision(3)).join(' × ')} mm are outside the plausible ${lo}–${hi} mm; check the header's units`];
+  }
+  return [];
+}
+
+/** A liver volume must be finite; above the plausible range it is warned about. */
+export function checkLiverVolume(volumeMl: number, file: string): string[] {
+  if (!Number.isFinite(volumeMl)) throw badFile(file, `gives a liver volume of ${volumeMl} mL; check the voxel sizes`);
+  if (volumeMl > PLAUSIBLE_LIVER_ML) {
+    return [`${file}: liver volume ${Math.round(volumeMl)} mL is above the plausible ${PLAUSIBLE_LIVER_ML} mL; check the voxel sizes and units`];
+  }
+  return [];
+}
+
+/** A volume's grid for the overlap and point checks. */
+export function gridOf(volume: Volume, file: string): GridInfo {
+  return { file, dims: volume.dims, affine: volume.affine };
+}

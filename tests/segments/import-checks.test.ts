@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkMask } from '../../renderer/store/volume-checks.js';
+import { checkMask } from '../../src/segments/import-checks.js';
 import { makeVolume } from '../../src/volume/volume.js';
 
 const I = [1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1];
