@@ -262,7 +262,7 @@ function Trail({ entries }: { entries: AuditRecord[] }) {
           {shown.map((a) => (
             <tr key={a.id} data-testid="trail-row" data-entity={a.entity} data-action={a.action}>
               <td>{localTime(a.at)}</td>
-              <td data-testid="trail-by">{a.by ?? '—'}</td>
+              <td data-testid="trail-by">{a.by || '—'}</td>
               <td>{what(a)}</td>
               <td>{value(a.oldValue, a.field)}</td>
               <td>{value(a.newValue, a.field)}</td>
