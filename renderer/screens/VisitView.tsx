@@ -387,20 +387,6 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             onDelete={(id) => setConfirm({ kind: 'delete', id })}
             busy={busy}
           />
-          <GrowPanel
-            patientId={patient.id}
-            visitId={visitId}
-            picking={growPick}
-            onPicking={(k) => {
-              setGrowPick(k);
-              setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).'
-                : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).'
-                  : k ? `Click on any plane to ${k === 'brush-add' ? 'add' : 'erase'} a ball of the brush radius; each click is stored and can be undone (Esc ends).` : null);
-            }}
-            seed={growSeed}
-            onAccepted={(text) => void edit(async () => text, { volumes: true })}
-            busy={busy}
-          />
           <LandmarkPanel
             mode={landmarkMode}
             landmarks={shownLandmarks}
@@ -418,6 +404,20 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             onStartBuilding={startBuilding}
             busy={busy}
             status={landmarkStatus}
+          />
+          <GrowPanel
+            patientId={patient.id}
+            visitId={visitId}
+            picking={growPick}
+            onPicking={(k) => {
+              setGrowPick(k);
+              setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).'
+                : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).'
+                  : k ? `Click on any plane to ${k === 'brush-add' ? 'add' : 'erase'} a ball of the brush radius; each click is stored and can be undone (Esc ends).` : null);
+            }}
+            seed={growSeed}
+            onAccepted={(text) => void edit(async () => text, { volumes: true })}
+            busy={busy}
           />
           {(inputs?.problem || (result && result.warnings.length > 0) || (volumes && volumes.warnings.length > 0)) && (
             <details className="warnings side-section">

@@ -146,8 +146,8 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
   );
   const running = progress !== null;
   return (
-    <section className="side-section" aria-labelledby="grow-title" data-testid="grow-panel">
-      <h3 id="grow-title">Grow from a click</h3>
+    <details className="side-section" data-testid="grow-panel">
+      <summary data-testid="grow-open"><h3 className="inline-title">Grow from a click, brush</h3></summary>
       <div className="grow-settings">
         {number('Opening (mm)', openingMm, setOpeningMm, 'grow-opening', 0, 20, 0.5)}
         {number('Closing (mm)', closingMm, setClosingMm, 'grow-closing', 0, 20, 0.5)}
@@ -220,6 +220,6 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
           </div>
         </div>
       )}
-    </section>
+    </details>
   );
 }

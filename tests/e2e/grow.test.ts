@@ -59,6 +59,7 @@ describe('grow from a click', () => {
     const liverBefore = await page.getByTestId('liver-volume').textContent();
 
     const inLiver = await pointWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
+    await page.getByTestId('grow-open').click();
     await page.getByTestId('grow-opening').fill('5');
     await page.getByTestId('grow-liver').click();
     expect(await page.getByTestId('viewer-hint').textContent()).toMatch(/Click inside plain liver tissue/);
