@@ -48,6 +48,22 @@ describe('grow from a click', () => {
     }
     throw new Error('no point of the image passes the test');
   };
+  /** Of the grid points whose readout passes `want`, the one nearest their mean: well inside the region. */
+  const middleWhere = async (want: (readout: string) => boolean): Promise<{ x: number; y: number }> => {
+    await viewer().scrollIntoViewIfNeeded();
+    const box = (await viewer().boundingBox())!;
+    const hits: { x: number; y: number }[] = [];
+    for (let fy = 0.2; fy <= 0.8; fy += 0.04) {
+      for (let fx = 0.2; fx <= 0.8; fx += 0.04) {
+        const x = box.x + box.width * fx, y = box.y + box.height * fy;
+        await page.mouse.move(x, y);
+        if (want((await page.getByTestId('readout').textContent()) ?? '')) hits.push({ x, y });
+      }
+    }
+    if (hits.length === 0) throw new Error('no point of the image passes the test');
+    const mx = hits.reduce((a, p) => a + p.x, 0) / hits.length, my = hits.reduce((a, p) => a + p.y, 0) / hits.length;
+    return hits.reduce((best, p) => (Math.hypot(p.x - mx, p.y - my) < Math.hypot(best.x - mx, best.y - my) ? p : best));
+  };
 
   it('grows the liver from one click, shows its settings, and stores it when accepted', async () => {
     await page.goto(server.url);
@@ -58,11 +74,12 @@ describe('grow from a click', () => {
     const before = await page.locator('[data-testid="lesion-row"]').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-lesion')));
     const liverBefore = await page.getByTestId('liver-volume').textContent();
 
-    const inLiver = await pointWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
+    // The tools open first: the point is looked for on the page as it will be clicked.
     await page.getByTestId('grow-open').click();
     await page.getByTestId('grow-opening').fill('5');
     await page.getByTestId('grow-liver').click();
     expect(await page.getByTestId('viewer-hint').textContent()).toMatch(/Click inside plain liver tissue/);
+    const inLiver = await pointWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
     await page.mouse.click(inLiver.x, inLiver.y);
     const result = page.getByTestId('grow-result');
     await result.waitFor({ timeout: 120_000 });
@@ -105,9 +122,9 @@ describe('grow from a click', () => {
   it('grows a lesion from a click on it and adds it to the lesion mask', async () => {
     await page.locator('[data-testid="lesion-row"][data-lesion="L1"]').click();
     await page.mouse.move(0, 0);
+    await page.getByTestId('grow-lesion').click();
     const onLesion = await pointWhere((t) => /lesion L1\b/.test(t));
     const id = /lesion (L\d+)/.exec(onLesion.text)![1];
-    await page.getByTestId('grow-lesion').click();
     await page.mouse.click(onLesion.x, onLesion.y);
     const result = page.getByTestId('grow-result');
     await result.waitFor({ timeout: 120_000 });
@@ -127,9 +144,10 @@ describe('grow from a click', () => {
   it('erases a ball from the liver mask with the brush on the coronal plane, and undoes it', async () => {
     await page.getByTestId('plane-coronal').click();
     const liverBefore = Number(await page.getByTestId('liver-volume').textContent());
-    const inLiver = await pointWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
     await page.getByTestId('brush-radius').fill('10');
     await page.getByTestId('brush-erase').click();
+    // Deep inside the liver, so the whole 10 mm ball lies in the mask.
+    const inLiver = await middleWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
     await page.mouse.click(inLiver.x, inLiver.y);
     await expect.poll(async () => (await page.getByTestId('edit-notice').textContent()) ?? '', { timeout: 60_000 }).toMatch(/Brush: erased a 10 mm ball from the liver mask \(\d+ voxels\)/);
     await expect.poll(async () => Number(await page.getByTestId('liver-volume').textContent()), { timeout: 120_000 }).toBeLessThan(liverBefore);
