@@ -8,8 +8,9 @@ import '@fontsource/atkinson-hyperlegible-mono/400.css';
 import '@fontsource/atkinson-hyperlegible-mono/700.css';
 import sansLicence from '@fontsource/atkinson-hyperlegible-next/LICENSE?raw';
 import monoLicence from '@fontsource/atkinson-hyperlegible-mono/LICENSE?raw';
-import sansPackage from '@fontsource/atkinson-hyperlegible-next/package.json';
-import monoPackage from '@fontsource/atkinson-hyperlegible-mono/package.json';
+// Named imports, so only these two fields of each package.json reach the bundle.
+import { license as sansLicenceName, version as sansVersion } from '@fontsource/atkinson-hyperlegible-next/package.json';
+import { license as monoLicenceName, version as monoVersion } from '@fontsource/atkinson-hyperlegible-mono/package.json';
 import { MONO_FONT, SANS_FONT, fontStack, type ShippedFont } from '../src/report/fonts';
 
 export interface FontNotice {
@@ -20,8 +21,8 @@ export interface FontNotice {
 }
 
 export const FONT_NOTICES: readonly FontNotice[] = [
-  { font: SANS_FONT, version: sansPackage.version, licenceName: sansPackage.license, licence: sansLicence },
-  { font: MONO_FONT, version: monoPackage.version, licenceName: monoPackage.license, licence: monoLicence },
+  { font: SANS_FONT, version: sansVersion, licenceName: sansLicenceName, licence: sansLicence },
+  { font: MONO_FONT, version: monoVersion, licenceName: monoLicenceName, licence: monoLicence },
 ];
 
 /**

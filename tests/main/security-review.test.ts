@@ -375,6 +375,10 @@ const DEPENDENCY_TEXT = [
   /^https:\/\/bit\.ly\/3cXEKWf$/,
   // dicom-parser: its project page in the licence banner comment the bundler keeps (never fetched).
   /^https:\/\/github\.com\/cornerstonejs\/dicomParser$/,
+  // The shipped fonts' licence texts, shown on the About screen: the OFL's home and each font project's
+  // page in its copyright line (text for the reader, never fetched).
+  /^http:\/\/scripts\.sil\.org\/OFL$/,
+  /^https:\/\/github\.com\/googlefonts\/atkinson-hyperlegible-next(-mono)?$/,
 ];
 const REMOTE_URL = /\b(?:https?|wss?|ftp):\/\/[^\s'"`)<>\\]*/g;
 
