@@ -8,6 +8,7 @@ import { parentPort } from 'node:worker_threads';
 import { donePatientResult, failedPatientResult, parsePatientResult, type PatientResult } from '../cohort/result.js';
 import { isFalciformError } from '../errors.js';
 import { utf8 } from '../report/csv.js';
+import { reportVisit } from '../report/input.js';
 import { patientInputs } from './cohort-files.js';
 import { writeFileAtomic } from './node-io.js';
 import { diskFiles, followupOfPatient } from './patient.js';
@@ -50,7 +51,7 @@ async function handle(task: BatchTask): Promise<BatchOutcome> {
     try {
       const patient = await loadPatientFrom(manifest, task.manifestPath, diskFiles(task.manifestPath));
       const followup = followupOfPatient(patient);
-      const visits = patient.visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings }));
+      const visits = patient.visits.map(reportVisit);
       result = donePatientResult(task.manifest, inputs.sha256, { manifest, visits, followup });
     } catch (e) {
       // One patient's bad input (or a fault in its analysis) is recorded and the batch goes on.

@@ -17,6 +17,16 @@ export interface ReportVisit {
   sliceThicknessMm?: number;
 }
 
+/** A loaded visit (command line or app) as the outputs see it. */
+export function reportVisit(v: {
+  manifest: { id: string; date: string };
+  analysis: VisitAnalysis;
+  warnings: readonly string[];
+  followup: { sliceThicknessMm?: number };
+}): ReportVisit {
+  return { id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm };
+}
+
 export interface ReportInput {
   manifest: Manifest;
   visits: readonly ReportVisit[];

@@ -100,7 +100,9 @@ describe('falciform report on DEMO-0001', () => {
         expect(Number(r!.longest_axial_mm)).toBeCloseTo(t.longestAxialMm[v.id], 1);
       }
     }
-    expect(rows).toHaveLength(lesions);
+    expect(rows.filter((r) => r.row_type === 'lesion' && r.status === 'present')).toHaveLength(lesions);
+    // Each visit also has its one summary row.
+    expect(rows.filter((r) => r.row_type === 'visit').map((r) => r.visit)).toEqual(followup.visits.map((v) => v.id));
     expect(rows.every((r) => r.caution === CAUTION)).toBe(true);
   });
 

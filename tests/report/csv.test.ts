@@ -114,9 +114,11 @@ describe('case-form export', () => {
     expect(rows.filter((r) => r.response !== '').every((r) => r.response_basis === 'computed')).toBe(true);
   });
 
-  it('writes NE for a track that cannot be assessed, and absent for one that vanished (RECIST 1.1: 0 mm)', () => {
+  it('writes NE for a track that cannot be assessed or is missing unconfirmed, and absent for one confirmed gone (RECIST 1.1: 0 mm)', () => {
     const absent = rows.filter((r) => r.row_type === 'lesion' && r.status !== 'present');
-    for (const r of absent) expect(r.evaluation).toBe(r.status === 'not-evaluable' ? 'NE' : 'absent');
+    expect(absent.length).toBeGreaterThan(0);
+    for (const r of absent) expect(r.evaluation).toBe(r.longest_axial_mm === 'NE' ? 'NE' : 'absent');
+    for (const r of absent) expect(r.longest_axial_mm).toBe(r.status === 'not-evaluable' || r.status === 'gone' ? 'NE' : '0');
     expect(rows.filter((r) => r.status === 'present').every((r) => r.evaluation === 'measured')).toBe(true);
   });
 

@@ -13,7 +13,7 @@ import { boardDocument } from '../../report/board-html.js';
 import { PAGE_SIZES, type PageSize } from '../../report/board-style.js';
 import { caseFormCsv, caseFormRows } from '../../report/case-form.js';
 import { utf8 } from '../../report/csv.js';
-import type { ReportInput } from '../../report/input.js';
+import { reportVisit, type ReportInput } from '../../report/input.js';
 import { keyedPseudonym, pseudonymNote, randomPseudonym, type Pseudonym } from '../../report/pseudonym.js';
 import { customSchemeJson } from '../../report/scheme-export.js';
 import { dateShiftDays, deidentifyReport } from '../../report/deidentify.js';
@@ -85,7 +85,7 @@ export const report: Command = {
       key !== undefined ? await keyedPseudonym(manifest.patient.id, key) : args.options.has('pseudonymise') ? randomPseudonym() : null;
     const whole: ReportInput = {
       manifest,
-      visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
+      visits: visits.map(reportVisit),
       followup,
       remnant,
     };
