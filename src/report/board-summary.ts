@@ -17,11 +17,11 @@ import { pseudonymNote, scrubId, type Pseudonym } from './pseudonym.js';
  */
 
 /** Most visits in the response table; the baseline and the latest ones are kept. */
-export const MAX_VISIT_ROWS = 6;
+export const MAX_VISIT_ROWS = 5;
 /** Most visits as columns of the lesion table. */
-export const MAX_TABLE_VISITS = 6;
-export const MAX_TRACK_ROWS = 9;
-export const MAX_ALERT_LINES = 6;
+export const MAX_TABLE_VISITS = 5;
+export const MAX_TRACK_ROWS = 6;
+export const MAX_ALERT_LINES = 4;
 export const MAX_WARNING_LINES = 2;
 
 export interface BoardOptions {

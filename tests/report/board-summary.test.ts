@@ -28,8 +28,10 @@ describe('board summary model', () => {
 
   it('keeps the baseline and the latest visits, and names what it leaves out', () => {
     const s = buildBoardSummary(syntheticPatient({ visits: 11, lesions: 16 }), { madeAt });
-    expect(s.visits.map((v) => v.id)).toEqual(['v1', 'v7', 'v8', 'v9', 'v10', 'v11'].slice(0, MAX_VISIT_ROWS));
-    expect(s.visitsLeftOut).toEqual(['v2', 'v3', 'v4', 'v5', 'v6']);
+    const all = Array.from({ length: 11 }, (_, k) => `v${k + 1}`);
+    const latest = all.slice(all.length - (MAX_VISIT_ROWS - 1));
+    expect(s.visits.map((v) => v.id)).toEqual(['v1', ...latest]);
+    expect(s.visitsLeftOut).toEqual(all.slice(1, all.length - (MAX_VISIT_ROWS - 1)));
     expect(s.lesionTable.visits).toHaveLength(MAX_TABLE_VISITS);
     expect(s.lesionTable.rows).toHaveLength(MAX_TRACK_ROWS);
     expect(s.lesionTable.rows.length + s.lesionTable.tracksLeftOut.length).toBe(16);
