@@ -22,6 +22,8 @@ async function isFolder(path: string): Promise<boolean> {
 /** True when PATH is a folder, or a file with the DICOM Part 10 marker ("DICM" at byte 128). */
 export async function isDicomPath(path: string): Promise<boolean> {
   if (await isFolder(path)) return true;
+  // A device or a pipe is never opened here (it could block for ever); the reader refuses it by name.
+  if (!(await stat(path).then((s) => s.isFile(), () => false))) return false;
   let fh;
   try {
     fh = await open(path, 'r');

@@ -155,7 +155,7 @@ describe('file access errors', () => {
   it('a missing file, a folder, a missing .img', async () => {
     await expect(loadVolume(join(dir, 'nope.nii.gz'))).rejects.toThrow(`${join(dir, 'nope.nii.gz')}: cannot be read: no such file`);
     mkdirSync(join(dir, 'folder.nii'));
-    await expect(loadVolume(join(dir, 'folder.nii'))).rejects.toThrow(/folder\.nii: cannot be read: is a folder, not a file/);
+    await expect(loadVolume(join(dir, 'folder.nii'))).rejects.toThrow(/folder\.nii: is a folder, not a regular file/);
     writeFileSync(join(dir, 'lonely.hdr'), header1({ magic: 'ni1', voxOffset: 0 }));
     await expect(loadVolume(join(dir, 'lonely.hdr'))).rejects.toThrow(`${join(dir, 'lonely.img')}: cannot be read: the .img data file of this .hdr/.img pair is missing`);
     await expect(readTextFile(join(dir, 'landmarks.json'))).rejects.toThrow(`${join(dir, 'landmarks.json')}: cannot be read: no such file`);
