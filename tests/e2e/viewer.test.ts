@@ -127,6 +127,8 @@ describe('visit viewer', () => {
     await page.locator('[data-testid="landmark-row"][data-landmark="middle_hepatic_vein"]').getByRole('button', { name: 'Show' }).click();
     const handle = page.locator('[data-testid="landmark-handle"][data-landmark="middle_hepatic_vein"]');
     await handle.waitFor();
+    // Show may leave the page scrolled to the landmark list, below the image: bring the point on screen.
+    await handle.scrollIntoViewIfNeeded();
     const ivBefore = await segmentVolume('IV');
     const imageBefore = await pixels();
     const h = (await handle.boundingBox())!;
