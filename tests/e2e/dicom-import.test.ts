@@ -62,6 +62,8 @@ describe('DICOM import in the browser', () => {
     // The headers propose the patient and date; the user confirms them.
     expect(await page.getByTestId('loose-patient').inputValue()).toBe('DCM-0007');
     expect(await page.getByTestId('loose-date').inputValue()).toBe('2026-05-20');
+    // A patient not yet stored is made only when the user says so.
+    await page.getByTestId('loose-create').check();
     await page.screenshot({ path: 'test-results/dicom-import-dialog.png' });
     await page.getByTestId('dialog-confirm').click();
     await page.getByTestId('import-done').waitFor({ timeout: 60_000 });
