@@ -51,7 +51,16 @@ export const webInflate: Inflate = async (gz, maxOutputBytes) => {
 
 /** Gzips bytes (e.g. an encoded NIfTI) for a .nii.gz download or store. */
 export async function webGzip(bytes: Uint8Array): Promise<Uint8Array> {
-  const stream = new CompressionStream('gzip');
+  return (await webTransform(new CompressionStream('gzip'), bytes, Infinity)) as Uint8Array;
+}
+
+/**
+ * Runs bytes whole through a compression or decompression stream and joins its output; null when
+ * the output would pass maxOutputBytes (the stream is cancelled there).
+ */
+export async function webTransform(
+  stream: CompressionStream | DecompressionStream, bytes: Uint8Array, maxOutputBytes: number,
+): Promise<Uint8Array | null> {
   const writer = stream.writable.getWriter();
   writer.write(plainBuffer(bytes)).catch(() => undefined);
   writer.close().catch(() => undefined);
@@ -63,6 +72,10 @@ export async function webGzip(bytes: Uint8Array): Promise<Uint8Array> {
     if (done || !value) break;
     chunks.push(value);
     total += value.length;
+    if (total > maxOutputBytes) {
+      await reader.cancel().catch(() => undefined);
+      return null;
+    }
   }
   const out = new Uint8Array(total);
   let at = 0;
