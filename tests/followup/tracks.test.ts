@@ -1,6 +1,6 @@
 import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
-import { assignRows, assignWithGate } from '../../src/followup/hungarian.js';
+import { assignWithGate } from '../../src/followup/hungarian.js';
 import { buildTracks, gateMm, type Override, type TrackVisitInput } from '../../src/followup/tracks.js';
 import { compareIds } from '../../src/followup/ids.js';
 
@@ -25,10 +25,11 @@ function table(visits: TrackVisitInput[], overrides: Override[] = []) {
 
 describe('optimal assignment (Hungarian)', () => {
   it('finds the least total cost where a greedy pick would not', () => {
-    // Greedy takes (0,0)=1 first, leaving (1,1)=100: 101. The optimum is 2 + 3 = 5.
-    expect(assignRows([[1, 2], [3, 100]])).toEqual([1, 0]);
+    // Greedy takes (0,0)=1 first, leaving (1,1)=100: 101. The optimum is 2 + 3 = 5. An unpaired cost
+    // far above every pair makes every row pair, as a plain assignment does.
+    expect(assignWithGate([[1, 2], [3, 100]], 1000)).toEqual([[0, 1], [1, 0]]);
     // Rectangular: three rows, four columns.
-    expect(assignRows([[4, 1, 3, 9], [2, 0, 5, 9], [3, 2, 2, 9]])).toEqual([1, 0, 2]);
+    expect(assignWithGate([[4, 1, 3, 9], [2, 0, 5, 9], [3, 2, 2, 9]], 1000)).toEqual([[0, 1], [1, 0], [2, 2]]);
   });
 
   it('agrees with brute force on random rectangular matrices', () => {
@@ -48,9 +49,10 @@ describe('optimal assignment (Hungarian)', () => {
     for (let trial = 0; trial < 40; trial++) {
       const n = 1 + Math.floor(rand() * 5), m = n + Math.floor(rand() * 3);
       const cost = Array.from({ length: n }, () => Array.from({ length: m }, () => Math.round(rand() * 20)));
-      const cols = assignRows(cost);
-      expect(new Set(cols).size).toBe(n);
-      expect(cols.reduce((s, c, r) => s + cost[r][c], 0)).toBe(best(cost, 0, new Set()));
+      const pairs = assignWithGate(cost, 1000);
+      expect(pairs.map(([r]) => r).sort()).toEqual([...Array(n).keys()]);
+      expect(new Set(pairs.map(([, c]) => c)).size).toBe(n);
+      expect(pairs.reduce((s, [r, c]) => s + cost[r][c], 0)).toBe(best(cost, 0, new Set()));
     }
   });
 
