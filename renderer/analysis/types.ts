@@ -1,7 +1,7 @@
-import type { FollowupResult } from '../../src/followup/followup';
-import type { Manifest } from '../../src/manifest/manifest';
-import type { VisitVolumetry } from '../../src/remnant/volumetry';
-import type { VisitAnalysis } from '../../src/visit/analyze';
+import type { FollowupResult } from '../../src/followup/followup.js';
+import type { Manifest } from '../../src/manifest/manifest.js';
+import type { VisitVolumetry } from '../../src/remnant/volumetry.js';
+import type { VisitAnalysis } from '../../src/visit/analyze.js';
 
 /** One visit's analysis as the app shows it. */
 export interface VisitResult {

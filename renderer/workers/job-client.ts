@@ -38,14 +38,31 @@ export type JobState =
   | { status: 'ready' }
   | { status: 'failed'; message: string };
 
+/** Results of earlier runs a job may reuse instead of starting a worker. */
+export interface JobMemo<R> {
+  /** A result still valid for this request, or null. */
+  kept(): R | null;
+  /** Called as a run starts; the function it returns receives that run's result. */
+  keep(): (result: R) => void;
+}
+
 /**
- * Runs a job in a worker of `start` whenever `deps` change, following its progress. The last
- * result stays available while a new run is under way; a run overtaken by the next one is ended.
+ * Runs a job in a worker of `start` whenever `deps` change, following its progress, unless `memo`
+ * has a valid result. The last result stays available while a new run is under way; a run
+ * overtaken by the next one is ended.
  */
-export function useJob<R>(start: () => Worker, request: unknown, crashed: string, deps: DependencyList): { state: JobState; last: R | null } {
-  const [state, setState] = useState<JobState>({ status: 'running', done: 0, total: 1, step: 'starting' });
-  const [last, setLast] = useState<R | null>(null);
+export function useJob<R>(start: () => Worker, request: unknown, crashed: string, deps: DependencyList, memo?: JobMemo<R>): { state: JobState; last: R | null } {
+  const [state, setState] = useState<JobState>(() =>
+    memo?.kept() ? { status: 'ready' } : { status: 'running', done: 0, total: 1, step: 'starting' });
+  const [last, setLast] = useState<R | null>(() => memo?.kept() ?? null);
   useEffect(() => {
+    const earlier = memo?.kept();
+    if (earlier) {
+      setLast(earlier);
+      setState({ status: 'ready' });
+      return;
+    }
+    const keep = memo?.keep();
     const stop = new AbortController();
     const live = () => !stop.signal.aborted;
     runJob<R>(start(), request, {
@@ -55,13 +72,14 @@ export function useJob<R>(start: () => Worker, request: unknown, crashed: string
     }).then(
       (result) => {
         if (!live()) return;
+        keep?.(result);
         setLast(result);
         setState({ status: 'ready' });
       },
       (e: unknown) => { if (live()) setState({ status: 'failed', message: errorText(e) }); },
     );
     return () => stop.abort();
-    // The caller names what the run depends on; start and request are read from that render.
+    // The caller names what the run depends on; start, request and memo are read from that render.
   }, deps);
   return { state, last };
 }
