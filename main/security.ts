@@ -7,11 +7,13 @@ export const APP_ORIGIN = `${APP_SCHEME}://app`;
 /**
  * Content-Security-Policy for every page the app serves (Electron protocol and the local web server).
  * Nothing from a remote origin: scripts, styles, workers and fetches come from the app itself;
- * blob: and data: are needed for decoded images and generated downloads.
+ * blob: and data: are needed for decoded images and generated downloads. 'wasm-unsafe-eval' lets the
+ * app compile WebAssembly (the JPEG-LS and JPEG 2000 decoders, bundled files of the app) and nothing
+ * else: JavaScript eval and new Function stay refused.
  */
 export const CONTENT_SECURITY_POLICY = [
   "default-src 'none'",
-  "script-src 'self'",
+  "script-src 'self' 'wasm-unsafe-eval'",
   "style-src 'self'",
   "img-src 'self' data: blob:",
   "font-src 'self'",

@@ -11,6 +11,7 @@ const TYPES: Record<string, string> = {
   '.ico': 'image/x-icon',
   '.woff2': 'font/woff2',
   '.gz': 'application/gzip',
+  '.wasm': 'application/wasm',
 };
 
 export function contentType(path: string): string {

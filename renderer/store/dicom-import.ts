@@ -1,4 +1,5 @@
 import type { OpenedFile } from '../../main/bridge-api.js';
+import type { DecodeImage } from '../../src/dicom/codecs.js';
 import { isDicomPart10 } from '../../src/dicom/parse.js';
 import { readDicomVolume, scanDicom, type DicomScan } from '../../src/dicom/read.js';
 import { chooseStack, type SeriesEntry } from '../../src/dicom/series.js';
@@ -71,13 +72,15 @@ export async function readDicomScan(
   files: OpenedFile[],
   series: string | undefined,
   at: { patientId: string; visitId: string },
-  onProgress?: (done: number, total: number, what: string) => void,
+  onProgress: ((done: number, total: number, what: string) => void) | undefined,
+  decodeImage: DecodeImage,
 ): Promise<{ record: VolumeRecord; facts: DicomVisitFacts; warnings: string[] }> {
   const dicom = dicomFilesOf(files);
   const scan = await scanOf(dicom, (done, total) => onProgress?.(done, total, 'reading DICOM headers'));
   onePatient(scan);
   const loaded = await readDicomVolume(scan, {
     inflateRaw: webInflateRaw,
+    decodeImage,
     series,
     label: ALL_DICOM,
     onProgress: (_phase, done, total) => onProgress?.(done, total, 'reading DICOM slices'),

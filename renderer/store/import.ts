@@ -18,6 +18,7 @@ import type { FalciformDb } from './db.js';
 import { ALL_FILES, NIFTI_NAME, PAIR_NAME, PAIR_PROBLEM, baseName, guessLooseFiles, textOf } from './loose-files.js';
 import { compact, ownBytes, trailId } from './record-helpers.js';
 import { dicomFilesOf, readDicomScan } from './dicom-import.js';
+import type { DecodeImage } from '../../src/dicom/codecs.js';
 import { checkMask, checkOverlap, checkPointsOnScan, type GridInfo } from '../../src/segments/import-checks.js';
 import { explainWriteFailure } from './write-failure.js';
 
@@ -54,6 +55,8 @@ export interface LooseVisitDetails {
 
 export interface ReadImportOptions {
   loose?: LooseVisitDetails;
+  /** JPEG-LS and JPEG 2000 decoding for DICOM scans (the worker's WebAssembly codecs). */
+  decodeImage?: DecodeImage;
   onProgress?: (done: number, total: number, file: string) => void;
 }
 
@@ -138,7 +141,8 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
     };
     const dicom = j.dicom && { ...j.dicom, onProgress: (done: number, total: number, what: string) => progress.report?.(progress.done, progress.total, `${what}: ${done} of ${total}`) };
     const folder = j.dicomFolder && { find: j.dicomFolder, onProgress: (done: number, total: number, what: string) => progress.report?.(progress.done, progress.total, `${what}: ${done} of ${total}`) };
-    patients.push({ ...(await planPatient(j.manifest, j.source, lookup, warnings, now, dicom, folder)), fromManifest: j.fromManifest });
+    const decodeImage = opts.decodeImage ?? noImageDecoder;
+    patients.push({ ...(await planPatient(j.manifest, j.source, lookup, warnings, now, decodeImage, dicom, folder)), fromManifest: j.fromManifest });
   }
   progress.report?.(progress.total, progress.total, '');
   const ignored = files.map((f) => f.relativePath).filter((p) => !used.has(normalisePath(p)) && !baseName(p).startsWith('.'));
@@ -224,8 +228,11 @@ function missing(path: string): never {
   throw badInput(ALL_FILES, `lost ${path} while reading`);
 }
 
+/** Where no image decoder was handed in: a JPEG-LS or JPEG 2000 frame is refused, naming its file. */
+const noImageDecoder: DecodeImage = (codec) => Promise.reject(new Error(`no ${codec === 'jpeg-ls' ? 'JPEG-LS' : 'JPEG 2000'} decoder is loaded here`));
+
 async function planPatient(
-  manifest: Manifest, source: string, lookup: Lookup, warnings: string[], now: string, dicom?: DicomScanSource,
+  manifest: Manifest, source: string, lookup: Lookup, warnings: string[], now: string, decodeImage: DecodeImage, dicom?: DicomScanSource,
   folder?: { find: DicomFolder; onProgress: DicomScanSource['onProgress'] },
 ): Promise<Omit<PatientPlan, 'fromManifest'>> {
   const patientId = manifest.patient.id;
@@ -272,7 +279,7 @@ async function planPatient(
       if (path === undefined) continue;
       const dicomScan = role !== 'scan' ? undefined : dicom && path === DICOM_SCAN ? dicom : folder && { files: folder.find(path), series: undefined, onProgress: folder.onProgress };
       if (dicomScan?.files) {
-        const read = await readDicomScan(dicomScan.files, dicomScan.series, { patientId, visitId: visit.id }, dicomScan.onProgress);
+        const read = await readDicomScan(dicomScan.files, dicomScan.series, { patientId, visitId: visit.id }, dicomScan.onProgress, decodeImage);
         warnings.push(...read.warnings);
         volumes.push(read.record);
         dicomFacts = read.facts;

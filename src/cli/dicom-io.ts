@@ -1,15 +1,29 @@
 import { open, readdir, stat } from 'node:fs/promises';
+import { createRequire } from 'node:module';
 import { join, relative } from 'node:path';
 import { inflateRawSync } from 'node:zlib';
 import { badFile } from '../errors.js';
 import type { InflateRaw } from '../dicom/parse.js';
 import { readDicom, type DicomSource, type LoadedDicom } from '../dicom/read.js';
+import { QUIET_MODULE, wasmDecodeImage, type CharlsModule, type OpenJpegModule } from '../dicom/wasm-codecs.js';
 
 /** node:zlib raw inflate for Deflated Explicit VR Little Endian, capped like the NIfTI inflater. */
 export const nodeInflateRaw: InflateRaw = async (deflated, maxOutputBytes) => {
   const out = inflateRawSync(deflated, { maxOutputLength: Math.min(maxOutputBytes, 2 ** 31 - 1) });
   return new Uint8Array(out.buffer, out.byteOffset, out.byteLength);
 };
+
+type ModuleFactory<M> = (options: object) => Promise<M>;
+const require = createRequire(import.meta.url);
+
+/**
+ * JPEG-LS and JPEG 2000 through the WebAssembly codecs, each module found beside its script in
+ * node_modules (the decode-only builds).
+ */
+export const nodeDecodeImage = wasmDecodeImage({
+  charls: () => (require('@cornerstonejs/codec-charls/decodewasmjs') as ModuleFactory<CharlsModule>)(QUIET_MODULE),
+  openjpeg: () => (require('@cornerstonejs/codec-openjpeg/decodewasmjs') as ModuleFactory<OpenJpegModule>)(QUIET_MODULE),
+});
 
 async function isFolder(path: string): Promise<boolean> {
   try {
@@ -96,5 +110,5 @@ export async function loadDicom(path: string, opts: { series?: string; maxBytes?
   const paths = folder ? await filesUnder(path) : [path];
   if (folder && paths.length === 0) throw badFile(path, 'is an empty folder');
   const sources = diskSources(paths, (p) => (folder ? join(path, relative(path, p)) : p));
-  return readDicom(sources, path, { inflateRaw: nodeInflateRaw, maxBytes: opts.maxBytes, series: opts.series });
+  return readDicom(sources, path, { inflateRaw: nodeInflateRaw, decodeImage: nodeDecodeImage, maxBytes: opts.maxBytes, series: opts.series });
 }

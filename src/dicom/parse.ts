@@ -31,6 +31,11 @@ export interface DicomFacts {
   patientName?: string;
   /** ISO 8601 date from PatientBirthDate (0010,0030). */
   patientBirthDate?: string;
+  /**
+   * Set when LossyImageCompression (0028,2110) is "01": the image has been lossy-compressed at some
+   * point (PS3.3 C.7.6.1.1.5), in words with the method (0028,2114) and ratio (0028,2112) when given.
+   */
+  lossyCompression?: string;
 }
 
 export interface PixelFormat {
@@ -199,6 +204,13 @@ function enhancedPlane(perFrame: DataSet | undefined, shared: DataSet | undefine
   };
 }
 
+function lossyHistory(ds: DataSet): string | undefined {
+  if (str(ds, 'x00282110')?.trim() !== '01') return undefined;
+  const method = str(ds, 'x00282114')?.split('\\').map((m) => m.trim()).filter(Boolean).join(', ');
+  const ratio = str(ds, 'x00282112')?.split('\\').map((r) => r.trim()).filter(Boolean).join(', ');
+  return ['Lossy Image Compression 01', method && `method ${method}`, ratio && `ratio ${ratio}`].filter(Boolean).join(', ');
+}
+
 function describe(ds: DataSet, file: string, syntax: { uid: string; name: string }): DicomFileInfo {
   const facts: DicomFacts = {
     studyUid: str(ds, 'x0020000d'),
@@ -217,6 +229,7 @@ function describe(ds: DataSet, file: string, syntax: { uid: string; name: string
     patientId: str(ds, 'x00100020'),
     patientName: str(ds, 'x00100010')?.replace(/\^+/g, ' ').trim(),
     patientBirthDate: isoDate(str(ds, 'x00100030')),
+    lossyCompression: lossyHistory(ds),
   };
   const hasPixels = ds.elements.x7fe00010 !== undefined;
   const pixel: PixelFormat | undefined = hasPixels

@@ -3,6 +3,7 @@ import { PLATFORM_LITTLE_ENDIAN, swapBytesInPlace, viewVoxels } from '../volume/
 import type { Datatype, VoxelArray } from '../volume/volume.js';
 import type { DicomFileInfo, PixelFormat } from './parse.js';
 import { dicomParser, type DataSet } from './parser-lib.js';
+import type { DecodedImage, DecodeImage } from './codecs.js';
 import { decodeRleFrame } from './rle.js';
 import { EXPLICIT_BIG_ENDIAN, transferSyntax } from './transfer-syntax.js';
 
@@ -24,13 +25,20 @@ export function pixelProblem(info: DicomFileInfo): string | undefined {
   return undefined;
 }
 
+/** Where a frame's decoded values go, and the image decoder for encapsulated JPEG-LS and JPEG 2000. */
+export interface FrameOptions {
+  decodeImage: DecodeImage;
+  /** The frame's bytes inside a volume; a fresh buffer when absent. */
+  into?: Uint8Array;
+}
+
 /**
  * The stored values of one frame, in DICOM order (columns fastest, which is NIfTI's i), as a typed
- * array of the stored type: written into `into` (the frame's bytes inside a volume) when given, else
- * into a fresh buffer. Pixel data is copied out of the file so the file's bytes can be released;
- * big-endian data is swapped to the platform's order.
+ * array of the stored type: written into `opts.into` when given, else into a fresh buffer. Pixel data
+ * is copied out of the file so the file's bytes can be released; big-endian data is swapped to the
+ * platform's order.
  */
-export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, frame: number, into?: Uint8Array): VoxelArray {
+export async function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, frame: number, opts: FrameOptions): Promise<VoxelArray> {
   const { info, dataSet } = parsed;
   const problem = pixelProblem(info);
   if (problem) throw badFile(info.file, problem);
@@ -41,22 +49,22 @@ export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, f
   const frameBytes = pixels * bytesPerSample;
   const element = dataSet.elements.x7fe00010;
   const bytes = dataSet.byteArray as Uint8Array;
+  const { into } = opts;
   if (into && into.length !== frameBytes) throw badFile(info.file, `holds ${frameBytes} bytes per frame where ${into.length} were expected`);
   const out = into ?? new Uint8Array(frameBytes);
-  if (transferSyntax(info.syntaxUid).encoding === 'rle') {
-    if (!element.encapsulatedPixelData) throw badFile(info.file, 'says RLE Lossless but its pixel data is not encapsulated');
-    let encoded: Uint8Array;
-    try {
-      const fragments = element.fragments ?? [];
-      // PS3.5 A.4.2: each RLE frame is one fragment; the offset table is then optional.
-      encoded = fragments.length === info.numberOfFrames && (element.basicOffsetTable ?? []).length === 0
-        ? dicomParser.readEncapsulatedPixelDataFromFragments(dataSet, element, frame, 1) as Uint8Array
-        : dicomParser.readEncapsulatedImageFrame(dataSet, element, frame) as Uint8Array;
-    } catch (e) {
-      throw badFile(info.file, `has RLE frame ${frame + 1} that cannot be found (${e instanceof Error ? e.message : String(e)})`);
-    }
-    decodeRleFrame(encoded, out, pixels, bytesPerSample, info.file);
+  const syntax = transferSyntax(info.syntaxUid);
+  if (syntax.encoding === 'rle') {
+    decodeRleFrame(encodedFrame(parsed, frame, syntax.name), out, pixels, bytesPerSample, info.file);
     if (!PLATFORM_LITTLE_ENDIAN) swapBytesInPlace(out, bytesPerSample);
+  } else if (syntax.encoding === 'jpeg-ls' || syntax.encoding === 'jpeg-2000') {
+    const encoded = encodedFrame(parsed, frame, syntax.name);
+    let image: DecodedImage;
+    try {
+      image = await opts.decodeImage(syntax.encoding, encoded);
+    } catch (e) {
+      throw badFile(info.file, `has ${syntax.name} frame ${frame + 1} that cannot be decoded (${e instanceof Error ? e.message : String(e)})`);
+    }
+    putDecoded(image, info, frame, syntax.name, viewVoxels(datatype, out.buffer, out.byteOffset, pixels));
   } else {
     const start = element.dataOffset + frame * frameBytes;
     const available = Math.min(element.dataOffset + element.length, bytes.length) - start;
@@ -70,4 +78,69 @@ export function decodeFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, f
     if (bigEndian === PLATFORM_LITTLE_ENDIAN) swapBytesInPlace(out, bytesPerSample);
   }
   return viewVoxels(datatype, out.buffer, out.byteOffset, pixels);
+}
+
+/**
+ * One frame's encoded bytes from encapsulated pixel data (PS3.5 A.4): through the Basic Offset Table
+ * when there is one; else all fragments for a single frame, one fragment per frame when the counts
+ * match, or frame ends found by the code streams' closing FFD9 marker (JPEG-LS EOI, JPEG 2000 EOC).
+ */
+function encodedFrame(parsed: { info: DicomFileInfo; dataSet: DataSet }, frame: number, syntaxName: string): Uint8Array {
+  const { info, dataSet } = parsed;
+  const element = dataSet.elements.x7fe00010;
+  if (!element.encapsulatedPixelData) throw badFile(info.file, `says ${syntaxName} but its pixel data is not encapsulated`);
+  const fragments = element.fragments ?? [];
+  try {
+    if ((element.basicOffsetTable ?? []).length > 0) return dicomParser.readEncapsulatedImageFrame(dataSet, element, frame) as Uint8Array;
+    if (info.numberOfFrames === 1) return dicomParser.readEncapsulatedPixelDataFromFragments(dataSet, element, 0, fragments.length) as Uint8Array;
+    if (fragments.length === info.numberOfFrames) return dicomParser.readEncapsulatedPixelDataFromFragments(dataSet, element, frame, 1) as Uint8Array;
+    if (transferSyntax(info.syntaxUid).encoding === 'rle') throw new Error(`${fragments.length} fragments for ${info.numberOfFrames} frames, where RLE keeps one fragment per frame`);
+    return dicomParser.readEncapsulatedImageFrame(dataSet, element, frame, dicomParser.createJPEGBasicOffsetTable(dataSet, element)) as Uint8Array;
+  } catch (e) {
+    throw badFile(info.file, `has ${syntaxName} frame ${frame + 1} that cannot be found (${e instanceof Error ? e.message : String(e)})`);
+  }
+}
+
+/**
+ * A decoded code stream's samples written as the frame's stored values, after checking that the code
+ * stream is exact and matches the header. The header's Pixel Representation rules (PS3.5 8.2: the
+ * stored bits are read as DICOM declares them); a signed image whose code stream holds its bits as
+ * unsigned, as JPEG-LS always does, is sign-extended from BitsStored.
+ */
+function putDecoded(image: DecodedImage, info: DicomFileInfo, frame: number, syntaxName: string, dst: VoxelArray): void {
+  const p = info.pixel as PixelFormat;
+  const where = info.numberOfFrames > 1 ? `frame ${frame + 1}` : 'its image';
+  if (!image.lossless) {
+    throw badFile(info.file, `says ${syntaxName} but ${where} is coded lossy (${image.coding}); a lossy image is not taken as exact`);
+  }
+  if (image.width !== p.columns || image.height !== p.rows) {
+    throw badFile(info.file, `has ${where} of ${image.width}×${image.height} pixels where its header says ${p.columns}×${p.rows}`);
+  }
+  if (image.components !== 1) throw badFile(info.file, `has ${where} with ${image.components} colour components, not a grey-scale scan`);
+  if (image.bitsPerSample > p.bitsAllocated) {
+    throw badFile(info.file, `has ${where} of ${image.bitsPerSample}-bit samples where ${p.bitsAllocated} bits are allocated`);
+  }
+  const wide = image.bitsPerSample > 8;
+  const n = dst.length;
+  if (image.samples.length < n * (wide ? 2 : 1)) throw badFile(info.file, `has ${where} that decodes to fewer samples than its ${p.columns}×${p.rows} pixels`);
+  let raw = image.samples;
+  if (wide && (raw.byteOffset % 2 !== 0 || !PLATFORM_LITTLE_ENDIAN)) {
+    raw = raw.slice(0, 2 * n);
+    if (!PLATFORM_LITTLE_ENDIAN) swapBytesInPlace(raw, 2);
+  }
+  const src = wide
+    ? (image.signed ? new Int16Array(raw.buffer, raw.byteOffset, n) : new Uint16Array(raw.buffer, raw.byteOffset, n))
+    : (image.signed ? new Int8Array(raw.buffer, raw.byteOffset, n) : raw.subarray(0, n));
+  const extendFrom = p.signed && !image.signed && p.bitsStored < p.bitsAllocated ? p.bitsStored : 0;
+  if (extendFrom > 0) {
+    const sign = 2 ** (extendFrom - 1);
+    const mask = 2 ** extendFrom - 1;
+    for (let k = 0; k < n; k++) {
+      const v = src[k] & mask;
+      dst[k] = v >= sign ? v - 2 * sign : v;
+    }
+  } else {
+    // Typed-array assignment keeps the low bits: unsigned code-stream values land as the header's type.
+    dst.set(src);
+  }
 }

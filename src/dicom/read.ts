@@ -3,6 +3,7 @@ import { DEFAULT_MAX_BYTES } from '../volume/nifti-read.js';
 import { bytesPerVoxel } from '../volume/nifti-datatype.js';
 import { makeVolume, type Datatype, type Volume, type VoxelArray } from '../volume/volume.js';
 import { isDicomPart10, parseDicomFile, type DicomFacts, type DicomFileInfo, type InflateRaw } from './parse.js';
+import type { DecodeImage } from './codecs.js';
 import { decodeFrame, storedDatatype } from './pixels.js';
 import { chooseStack, groupStacks, stackGeometry, stackName, type SeriesEntry, type Stack } from './series.js';
 
@@ -24,6 +25,8 @@ export interface DicomSource {
 
 export interface DicomReadOptions {
   inflateRaw: InflateRaw;
+  /** Decoder for JPEG-LS and JPEG 2000 pixel data; loaded only when a chosen file needs it. */
+  decodeImage: DecodeImage;
   /** Memory budget for the voxel data, in bytes. */
   maxBytes?: number;
   /** Called after each file of a pass. */
@@ -57,7 +60,7 @@ function listed(names: string[], max = 5): string {
  * Parses every source's header. A single source that is not DICOM, or is damaged, is an error; in a
  * folder such files are skipped with a warning, and the series checks catch a slice that went missing.
  */
-export async function scanDicom(sources: DicomSource[], opts: DicomReadOptions): Promise<DicomScan> {
+export async function scanDicom(sources: DicomSource[], opts: Omit<DicomReadOptions, 'decodeImage'>): Promise<DicomScan> {
   const maxBytes = opts.maxBytes ?? DEFAULT_MAX_BYTES;
   const files: (DicomFileInfo | undefined)[] = [];
   const notDicom: string[] = [];
@@ -106,6 +109,10 @@ export async function readDicomVolume(scan: DicomScan, opts: DicomReadOptions & 
   const volume = await fillVolume(scan, chosen, geometry.affine, opts);
   const chosenEntry = entries.find((e) => e.taken) as SeriesEntry;
   const warnings = [...scan.warnings, ...geometry.warnings];
+  const lossy = chosen.slices.find((r) => r.file.facts.lossyCompression)?.file;
+  if (lossy) {
+    warnings.push(`${stackName(chosen)}: ${lossy.file} says its image was lossy-compressed before (${lossy.facts.lossyCompression}); its values are what the file holds, not the original acquisition's`);
+  }
   const volumetric = entries.filter((e) => e.taken || e.why === 'another series was taken').length;
   if (volumetric > 1 && opts.series === undefined) {
     warnings.push(`${volumetric} volumetric series found; took ${stackName(chosen)} by the default rule (most slices, then thinnest spacing, then lowest series number)`);
@@ -144,9 +151,9 @@ async function fillVolume(scan: DicomScan, stack: Stack, affine: readonly number
       if (parsed.info.frames.length <= r.plane.frame) throw badFile(src.name, 'changed while it was being read');
       if (uniform) {
         // Decoded straight into the volume: no per-slice copy.
-        decodeFrame(parsed, r.plane.frame, new Uint8Array(data.buffer, k * pixels * data.BYTES_PER_ELEMENT, pixels * data.BYTES_PER_ELEMENT));
+        await decodeFrame(parsed, r.plane.frame, { decodeImage: opts.decodeImage, into: new Uint8Array(data.buffer, k * pixels * data.BYTES_PER_ELEMENT, pixels * data.BYTES_PER_ELEMENT) });
       } else {
-        const values = decodeFrame(parsed, r.plane.frame);
+        const values = await decodeFrame(parsed, r.plane.frame, { decodeImage: opts.decodeImage });
         if (values.length !== pixels) throw badFile(src.name, `holds ${values.length} pixels per frame where ${pixels} were expected`);
         const { slope, inter } = r.plane;
         const at = k * pixels;

@@ -1,8 +1,10 @@
 /**
  * Transfer syntaxes by UID (DICOM PS3.5 section 10 and Annex A; UIDs as listed in PS3.6 Annex A),
- * with the way Falciform decodes each. Anything not decoded is refused by name.
+ * with the way Falciform decodes each. Anything not decoded is refused by name: the lossy syntaxes
+ * among them (JPEG baseline and extended, near-lossless JPEG-LS, JPEG 2000 that may be lossy) are never
+ * decoded, so a lossy image is never taken for an exact one.
  */
-export type PixelEncoding = 'native' | 'deflated' | 'rle' | 'refused';
+export type PixelEncoding = 'native' | 'deflated' | 'rle' | 'jpeg-ls' | 'jpeg-2000' | 'refused';
 
 interface Syntax {
   name: string;
@@ -20,9 +22,9 @@ const SYNTAXES: Record<string, Syntax> = {
   '1.2.840.10008.1.2.4.51': { name: 'JPEG Extended (Process 2 and 4), a lossy compression', encoding: 'refused' },
   '1.2.840.10008.1.2.4.57': { name: 'JPEG Lossless, Non-Hierarchical (Process 14)', encoding: 'refused' },
   '1.2.840.10008.1.2.4.70': { name: 'JPEG Lossless, Non-Hierarchical, First-Order Prediction (Process 14, Selection Value 1)', encoding: 'refused' },
-  '1.2.840.10008.1.2.4.80': { name: 'JPEG-LS Lossless', encoding: 'refused' },
+  '1.2.840.10008.1.2.4.80': { name: 'JPEG-LS Lossless', encoding: 'jpeg-ls' },
   '1.2.840.10008.1.2.4.81': { name: 'JPEG-LS Lossy (Near-Lossless)', encoding: 'refused' },
-  '1.2.840.10008.1.2.4.90': { name: 'JPEG 2000 Image Compression (Lossless Only)', encoding: 'refused' },
+  '1.2.840.10008.1.2.4.90': { name: 'JPEG 2000 Image Compression (Lossless Only)', encoding: 'jpeg-2000' },
   '1.2.840.10008.1.2.4.91': { name: 'JPEG 2000 Image Compression, possibly lossy', encoding: 'refused' },
   '1.2.840.10008.1.2.4.92': { name: 'JPEG 2000 Part 2 Multi-component (Lossless Only)', encoding: 'refused' },
   '1.2.840.10008.1.2.4.93': { name: 'JPEG 2000 Part 2 Multi-component', encoding: 'refused' },

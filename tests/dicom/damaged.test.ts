@@ -1,17 +1,18 @@
 // Damaged DICOM files (pydicom's shipped test files, cut short or with bytes changed, seeded so a
-// failure reproduces): every header parse and frame decode ends in a result or a FalciformError naming
-// the file, never a bare exception from the parsing library. Project rule: docs/contracts.md (bad input).
+// failure reproduces; the JPEG-LS and JPEG 2000 ones through the WebAssembly decoders): every header
+// parse and frame decode ends in a result or a FalciformError naming the file, never a bare exception
+// from the parsing library or a codec. Project rule: docs/contracts.md (bad input).
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { nodeInflateRaw } from '../../src/cli/dicom-io.js';
+import { nodeDecodeImage, nodeInflateRaw } from '../../src/cli/dicom-io.js';
 import { parseDicomFile } from '../../src/dicom/parse.js';
 import { decodeFrame } from '../../src/dicom/pixels.js';
 import { readDicom } from '../../src/dicom/read.js';
 import { isFalciformError } from '../../src/errors.js';
 import { PYDICOM_DATA } from './fixtures.js';
 
-const FILES = ['CT_small.dcm', 'MR_small_RLE.dcm', 'image_dfl.dcm', 'MR_small_bigendian.dcm', 'MR_small_implicit.dcm', 'rtdose_rle.dcm'];
+const FILES = ['CT_small.dcm', 'MR_small_RLE.dcm', 'image_dfl.dcm', 'MR_small_bigendian.dcm', 'MR_small_implicit.dcm', 'rtdose_rle.dcm', 'MR_small_jpeg_ls_lossless.dcm', 'MR_small_jp2klossless.dcm'];
 const CASES = 80;
 
 function prng(seed: number) {
@@ -41,7 +42,7 @@ describe('damaged DICOM files', () => {
         const file = `${name}#${c}`;
         try {
           const parsed = await parseDicomFile(bytes, file, nodeInflateRaw, 1 << 26);
-          for (let f = 0; f < parsed.info.numberOfFrames; f++) decodeFrame(parsed, f);
+          for (let f = 0; f < parsed.info.numberOfFrames; f++) await decodeFrame(parsed, f, { decodeImage: nodeDecodeImage });
           results++;
         } catch (e) {
           expect(isFalciformError(e), `${file}: ${String(e)}`).toBe(true);
@@ -49,7 +50,7 @@ describe('damaged DICOM files', () => {
           typed++;
         }
         // The whole reader too: a single image is refused, but always with a typed error.
-        const whole = await readDicom([{ name: file, bytes: async () => bytes }], file, { inflateRaw: nodeInflateRaw }).then(() => null, (e: unknown) => e);
+        const whole = await readDicom([{ name: file, bytes: async () => bytes }], file, { inflateRaw: nodeInflateRaw, decodeImage: nodeDecodeImage }).then(() => null, (e: unknown) => e);
         if (whole !== null) expect(isFalciformError(whole), `${file}: ${String(whole)}`).toBe(true);
       }
       expect(typed + results).toBe(CASES);

@@ -2,7 +2,8 @@
 // anisotropic affine; file names shuffled; InstanceNumber reversed; a localizer beside it) and against
 // Debian's dcm2niix converting the same folder, run live. Geometry rules: DICOM PS3.3 C.7.6.2.1.1
 // (Image Position/Orientation Patient, Pixel Spacing, LPS patient axes) and C.7.6.16 (per-frame
-// functional groups); transfer syntaxes: PS3.5 section 10, A.5 (deflated) and Annex G (RLE).
+// functional groups); transfer syntaxes: PS3.5 section 10, A.5 (deflated), Annex G (RLE), A.4.3
+// (JPEG-LS Lossless) and A.4.4 (JPEG 2000 Lossless Only), the last two written by GDCM's gdcmconv.
 import { spawnSync } from 'node:child_process';
 import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
@@ -41,7 +42,7 @@ describe('a DICOM series against the volume it was written from', () => {
     expect(loaded.facts).toMatchObject({ studyDate: '2026-03-14', modality: 'CT', kvp: 120, contrastAgent: 'IODINE', sliceThicknessMm: 2.5, patientId: 'SYN-0042' });
   });
 
-  for (const syntax of ['implicit', 'bigendian', 'deflated', 'rle']) {
+  for (const syntax of ['implicit', 'bigendian', 'deflated', 'rle', 'jpegls', 'j2k']) {
     it(`reads the same series stored in ${syntax} transfer syntax`, async () => {
       const fx = writeSeries(tempDir(`dcm-${syntax}`), 'good', syntax);
       const loaded = await loadDicom(fx.folder);
@@ -52,6 +53,13 @@ describe('a DICOM series against the volume it was written from', () => {
 
   it('reads an enhanced multi-frame CT file through its per-frame functional groups (frames shuffled)', async () => {
     const fx = writeSeries(tempDir('dcm-enh'), 'enhanced');
+    const loaded = await loadDicom(fx.folder);
+    const original = (await loadVolume(fx.original)).volume;
+    expect(expectSameInWorld(loaded.volume, original)).toBe(32 * 28 * 20);
+  });
+
+  it('reads an enhanced multi-frame CT file compressed as JPEG 2000 Lossless, frame by frame', async () => {
+    const fx = writeSeries(tempDir('dcm-enh-j2k'), 'enhanced', 'j2k');
     const loaded = await loadDicom(fx.folder);
     const original = (await loadVolume(fx.original)).volume;
     expect(expectSameInWorld(loaded.volume, original)).toBe(32 * 28 * 20);

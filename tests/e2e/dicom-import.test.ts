@@ -12,6 +12,8 @@ import { launchChromium, watchErrors } from './browser.js';
 // beside it) and the visit's segment map and lesion mask as NIfTI, imported through the app's folder
 // picker in Chromium: the series list with the scan chosen, the header's patient ID and study date
 // proposed and confirmed, then the scan seen in the viewer. Series choice rule: docs/formats.md.
+// The same series compressed as JPEG-LS Lossless (GDCM's gdcmconv) is then imported as a later visit:
+// the served app's CSP lets the bundled WebAssembly decoder compile and its .wasm asset load.
 describe('DICOM import in the browser', () => {
   let server: WebServer;
   let browser: Browser;
@@ -30,6 +32,11 @@ describe('DICOM import in the browser', () => {
     const r = spawnSync('/usr/bin/python3', ['tests/reference/nifti_to_dicom.py', join(dir, 'scan.nii.gz'), join(visit, 'DICOM')], { encoding: 'utf8' });
     if (r.status !== 0) throw new Error(r.stderr);
     for (const name of ['segments.nii.gz', 'lesions.nii.gz']) writeFileSync(join(visit, name), v1.find((f) => f.relativePath.endsWith(name))!.bytes);
+    const jls = join(dir, 'CD-export-jpeg-ls');
+    mkdirSync(jls, { recursive: true });
+    const c = spawnSync('/usr/bin/python3', ['tests/reference/nifti_to_dicom.py', join(dir, 'scan.nii.gz'), join(jls, 'DICOM'), 'jpegls'], { encoding: 'utf8' });
+    if (c.status !== 0) throw new Error(c.stderr);
+    for (const name of ['segments.nii.gz', 'lesions.nii.gz']) writeFileSync(join(jls, name), v1.find((f) => f.relativePath.endsWith(name))!.bytes);
     server = await startWebServer('build/renderer');
     browser = await launchChromium();
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
@@ -78,6 +85,30 @@ describe('DICOM import in the browser', () => {
     // The same two lesions the NIfTI fixture's mask holds, placed on the DICOM-derived scan.
     expect(await page.locator('[data-testid="lesion-table"] tbody tr').count()).toBe(2);
     await page.screenshot({ path: 'test-results/dicom-import-visit.png' });
+    expect(errors).toEqual([]);
+  }, 180_000);
+
+  it('imports the same series stored as JPEG-LS Lossless as a later visit of the stored patient', async () => {
+    const wasm: string[] = [];
+    page.on('response', (r) => { if (r.url().endsWith('.wasm')) wasm.push(`${r.status()} ${r.headers()['content-type']}`); });
+    await page.goto(server.url);
+    await page.locator('[data-patient="DCM-0007"]').waitFor();
+    await page.getByTestId('folder-input').setInputFiles(join(dir, 'CD-export-jpeg-ls'));
+    await page.getByTestId('dicom-series').waitFor();
+    // The header's patient ID names a stored patient, which is chosen; the user gives the later date.
+    expect(await page.getByTestId('loose-existing').inputValue()).toBe('DCM-0007');
+    await page.getByTestId('loose-date').fill('2026-08-20');
+    await page.getByTestId('dialog-confirm').click();
+    await page.getByTestId('import-done').waitFor({ timeout: 60_000 });
+    expect(wasm).toEqual(['200 application/wasm']);
+    await page.locator('[data-patient="DCM-0007"] [data-testid="open-patient"]').click();
+    await page.locator('[data-testid="visit-row"][data-visit="2026-08-20"] a').click();
+    await page.getByTestId('slice-viewer').waitFor();
+    await page.getByTestId('analysis-progress').waitFor({ state: 'detached', timeout: 60_000 });
+    await page.getByTestId('lesion-table').waitFor();
+    expect(await page.getByTestId('dicom-facts').textContent()).toContain('Scan from DICOM: CT · Abdomen portal venous');
+    expect(await page.locator('[data-testid="lesion-table"] tbody tr').count()).toBe(2);
+    await page.screenshot({ path: 'test-results/dicom-import-jpeg-ls-visit.png' });
     expect(errors).toEqual([]);
   }, 180_000);
 });

@@ -461,10 +461,11 @@ describe('Content-Security-Policy', () => {
     const directives = CONTENT_SECURITY_POLICY.split(';').map((d) => d.trim().split(/\s+/));
     expect(directives.map(([name]) => name)).toContain('default-src');
     for (const [name, ...sources] of directives) {
-      for (const s of sources) expect(["'self'", "'none'", 'data:', 'blob:'], `${name} ${s}`).toContain(s);
+      for (const s of sources) expect(name === 'script-src' ? ["'self'", "'wasm-unsafe-eval'"] : ["'self'", "'none'", 'data:', 'blob:'], `${name} ${s}`).toContain(s);
     }
-    // Scripts only from files of the app: no data:, blob:, inline or eval.
-    expect(directives.find(([n]) => n === 'script-src')!.slice(1)).toEqual(["'self'"]);
+    // Scripts only from files of the app: no data:, blob:, inline or eval; WebAssembly may be compiled
+    // (the bundled JPEG-LS and JPEG 2000 decoders), which 'wasm-unsafe-eval' allows and nothing more.
+    expect(directives.find(([n]) => n === 'script-src')!.slice(1)).toEqual(["'self'", "'wasm-unsafe-eval'"]);
   });
 
   it('is sent by the local web server on every page and script, as by the desktop protocol', async () => {

@@ -4,7 +4,9 @@ DICOM reader is checked against files it did not write.
 
 Usage: dicom_series.py OUTDIR CASE [SYNTAX]
 CASE: good | missing | two-orientations | duplicate | junk | tilt | enhanced | rescale
-SYNTAX: explicit (default) | implicit | bigendian | deflated | rle
+SYNTAX: explicit (default) | implicit | bigendian | deflated | rle | jpegls | j2k
+(jpegls and j2k: written explicit, then compressed losslessly by GDCM's gdcmconv, Debian's libgdcm-tools:
+JPEG-LS Lossless 1.2.840.10008.1.2.4.80 and JPEG 2000 Lossless Only 1.2.840.10008.1.2.4.90.)
 Writes OUTDIR/dicom/ (slices under shuffled random names, beside a localizer and, for `junk`, a text
 file), OUTDIR/original.nii.gz (the volume and its RAS affine, via nibabel) and prints a JSON summary.
 Geometry per DICOM PS3.3 C.7.6.2.1.1 (LPS patient coordinates; RAS = LPS with x and y negated).
@@ -12,6 +14,7 @@ Geometry per DICOM PS3.3 C.7.6.2.1.1 (LPS patient coordinates; RAS = LPS with x 
 import json
 import os
 import random
+import subprocess
 import sys
 
 import nibabel as nib
@@ -25,7 +28,9 @@ from pydicom.uid import (CTImageStorage, DeflatedExplicitVRLittleEndian, Explici
 NX, NY, NZ = 32, 28, 20
 SPACING = (0.7, 0.9, 2.5)
 SYNTAXES = {'explicit': ExplicitVRLittleEndian, 'implicit': ImplicitVRLittleEndian, 'bigendian': ExplicitVRBigEndian,
-            'deflated': DeflatedExplicitVRLittleEndian, 'rle': RLELossless}
+            'deflated': DeflatedExplicitVRLittleEndian, 'rle': RLELossless,
+            'jpegls': '1.2.840.10008.1.2.4.80', 'j2k': '1.2.840.10008.1.2.4.90'}
+GDCMCONV = {'1.2.840.10008.1.2.4.80': '--jpegls', '1.2.840.10008.1.2.4.90': '--j2k'}
 ENHANCED_CT = '1.2.840.10008.5.1.4.1.1.2.1'
 
 
@@ -75,6 +80,12 @@ def base(series_uid, study_uid, number, description, sop_class=CTImageStorage):
 
 
 def save(ds, path, syntax):
+    if syntax in GDCMCONV:
+        save(ds, path, ExplicitVRLittleEndian)
+        subprocess.run(['gdcmconv', GDCMCONV[syntax], path, path], check=True)
+        if pydicom.dcmread(path, stop_before_pixels=True).file_meta.TransferSyntaxUID != syntax:
+            raise SystemExit(f'gdcmconv did not write {syntax}')
+        return
     meta = FileMetaDataset()
     meta.MediaStorageSOPClassUID = ds.SOPClassUID
     meta.MediaStorageSOPInstanceUID = ds.SOPInstanceUID

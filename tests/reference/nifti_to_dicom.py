@@ -3,7 +3,8 @@
 geometry (PS3.3 C.7.6.2.1.1; LPS = RAS with x and y negated) and values (stored + 1024, intercept
 -1024), under shuffled names, beside a localizer.
 
-Usage: nifti_to_dicom.py NIFTI OUTDIR
+Usage: nifti_to_dicom.py NIFTI OUTDIR [SYNTAX]
+SYNTAX of the series' slices as in dicom_series.py (explicit by default; jpegls and j2k through gdcmconv).
 """
 import os
 import random
@@ -13,12 +14,13 @@ import nibabel as nib
 import numpy as np
 from pydicom.uid import ExplicitVRLittleEndian, generate_uid
 
-from dicom_series import base, put_pixels, save
+from dicom_series import SYNTAXES, base, put_pixels, save
 
 
 def main():
     img = nib.load(sys.argv[1])
     out = sys.argv[2]
+    syntax = SYNTAXES[sys.argv[3] if len(sys.argv) > 3 else 'explicit']
     os.makedirs(out, exist_ok=True)
     vol = np.rint(np.asarray(img.dataobj, dtype=float) * 1 + 0).astype(np.int32)
     lps = np.diag([-1, -1, 1, 1]) @ img.affine
@@ -37,7 +39,7 @@ def main():
         ds.ImageOrientationPatient = [float(x) for x in [*row_cos, *col_cos]]
         ds.PixelSpacing = [float(spacing[1]), float(spacing[0])]
         put_pixels(ds, (vol[:, :, k].T + 1024).astype(np.uint16), ExplicitVRLittleEndian)
-        save(ds, os.path.join(out, names[k]), ExplicitVRLittleEndian)
+        save(ds, os.path.join(out, names[k]), syntax)
     loc = base(generate_uid(), study, 1, 'Scout')
     loc.PatientID, loc.PatientName, loc.StudyDate = 'DCM-0007', 'Example^Dicom', '20260520'
     loc.ImageType = ['ORIGINAL', 'PRIMARY', 'LOCALIZER']

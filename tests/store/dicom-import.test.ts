@@ -2,7 +2,8 @@
 // tests/reference/nifti_to_dicom.py) imported into the local store: the scan is stored as NIfTI with
 // the same world geometry and values (DICOM PS3.3 C.7.6.2.1.1; compared through world coordinates),
 // the visit keeps the header facts, the audit trail the series UID, and a backup round-trips them.
-// Files of two patients in one import are refused.
+// Files of two patients in one import are refused. The same series as JPEG-LS Lossless (GDCM's
+// gdcmconv) goes through the decoder handed to the import, and is refused by name without one.
 import 'fake-indexeddb/auto';
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
@@ -13,6 +14,7 @@ import type { OpenedFile } from '../../main/bridge-api.js';
 import { createBackup, readBackup, restoreBackup } from '../../renderer/store/backup.js';
 import { FalciformDb } from '../../renderer/store/db.js';
 import { commitImport, readImport } from '../../renderer/store/import.js';
+import { nodeDecodeImage } from '../../src/cli/dicom-io.js';
 import { isFalciformError } from '../../src/errors.js';
 import { readNifti } from '../../src/volume/nifti-read.js';
 import { webInflate } from '../../src/volume/web-gzip.js';
@@ -25,6 +27,7 @@ afterEach(dropAll);
 
 let v1: OpenedFile[];
 let dicom: OpenedFile[];
+let jpegLs: OpenedFile[];
 
 beforeAll(() => {
   v1 = patientFolder({ id: 'X', oneVisit: true }).filter((f) => f.relativePath.includes('/v1/'));
@@ -33,7 +36,10 @@ beforeAll(() => {
   const r = spawnSync('/usr/bin/python3', ['tests/reference/nifti_to_dicom.py', join(dir, 'scan.nii.gz'), join(dir, 'dicom')], { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(r.stderr);
   dicom = readdirSync(join(dir, 'dicom')).map((n) => ({ relativePath: `export/dicom/${n}`, bytes: new Uint8Array(readFileSync(join(dir, 'dicom', n))) }));
-}, 60_000);
+  const c = spawnSync('/usr/bin/python3', ['tests/reference/nifti_to_dicom.py', join(dir, 'scan.nii.gz'), join(dir, 'jpeg-ls'), 'jpegls'], { encoding: 'utf8' });
+  if (c.status !== 0) throw new Error(c.stderr);
+  jpegLs = readdirSync(join(dir, 'jpeg-ls')).map((n) => ({ relativePath: `export/dicom/${n}`, bytes: new Uint8Array(readFileSync(join(dir, 'jpeg-ls', n))) }));
+}, 120_000);
 
 const visitFiles = () => [
   ...dicom.map((f) => ({ ...f, bytes: f.bytes.slice() })),
@@ -76,6 +82,17 @@ describe('DICOM series as a visit scan in the store', () => {
     const scan = plan.patients[0].volumes.find((v) => v.role === 'scan')!;
     const source = (await readNifti(v1.find((f) => f.relativePath.endsWith('scan.nii.gz'))!.bytes, 'source', { inflate: webInflate })).volume;
     expect(expectSameInWorld((await readNifti(scan.bytes, 'stored', { inflate: webInflate })).volume, source, 1e-3)).toBe(64 * 48 * 40);
+  });
+
+  it('a JPEG-LS Lossless series is decoded by the handed-in decoder to the same scan, and refused by name without one', async () => {
+    const others = v1.filter((f) => !f.relativePath.endsWith('scan.nii.gz')).map((f) => ({ relativePath: `export/${f.relativePath.split('/').pop()}`, bytes: f.bytes.slice() }));
+    const files = () => [...jpegLs.map((f) => ({ ...f, bytes: f.bytes.slice() })), ...others];
+    const plan = await readImport(files(), { loose: { patientId: 'DCM-0007', date: '2026-05-20' }, decodeImage: nodeDecodeImage });
+    const scan = plan.patients[0].volumes.find((v) => v.role === 'scan')!;
+    const source = (await readNifti(v1.find((f) => f.relativePath.endsWith('scan.nii.gz'))!.bytes, 'source', { inflate: webInflate })).volume;
+    expect(expectSameInWorld((await readNifti(scan.bytes, 'stored', { inflate: webInflate })).volume, source, 1e-3)).toBe(64 * 48 * 40);
+    const e = await readImport(files(), { loose: { patientId: 'DCM-0007', date: '2026-05-20' } }).then(() => null, (x: unknown) => x);
+    expect(isFalciformError(e) && e.message).toMatch(/^export\/dicom\/\w+: has JPEG-LS Lossless frame 1 that cannot be decoded \(no JPEG-LS decoder is loaded here\)$/);
   });
 
   it('refuses DICOM files of two patients in one import', async () => {
