@@ -43,6 +43,30 @@ describe('mRECIST target categories', () => {
     ).toEqual(['T3', 'T2']);
   });
 
+  it('a tiny viable focus does not qualify a lesion as a target, however large the lesion', () => {
+    // Source: mRECIST target lesions "can be accurately measured in at least one dimension as 1 cm or
+    // more" and show intratumoral arterial enhancement (Lencioni and Llovet 2010, from memory); the
+    // measure is the viable diameter, so a 60 mm lesion with a 6 mm enhancing focus is no target.
+    expect(
+      selectViableTargets([
+        { id: 'T1', longestMm: 60, measurable: true, viableMm: 6 },
+        { id: 'T2', longestMm: 45, measurable: true, viableMm: 9.9 },
+        { id: 'T3', longestMm: 14, measurable: true, viableMm: 10 },
+      ]),
+    ).toEqual(['T3']);
+    // Through the follow-up: the 60 mm lesion is left out, the 14 mm one with 10 mm viable is the target.
+    const r = runFollowup(
+      [
+        visit('v1', '2026-01-10', [lesion('M1', [-60, 10, 0], 60, 6), lesion('M2', [40, 0, 0], 14, 10)]),
+        visit('v2', '2026-03-10', [lesion('M1', [-60, 10, 0], 60, 6), lesion('M2', [40, 0, 0], 14, 10)]),
+      ],
+      { marginMm: 10, criteria: 'mRECIST' },
+    );
+    const target = r.tracks.filter((t) => t.target).map((t) => t.lesions.v1);
+    expect(target).toEqual(['M2']);
+    expect(r.visits[0].response.baselineSumMm).toBe(10);
+  });
+
   it('gives viable-mask regions to the lesion that holds them, longest region per lesion', () => {
     const { viable, unassigned } = viableFromComponents(
       [
@@ -50,9 +74,9 @@ describe('mRECIST target categories', () => {
         { id: 'L2', centroidMm: [100, 0, 0], longestAxialMm: 20 },
       ],
       [
-        { centroidMm: [10, 0, 0], longestAxialMm: 12 },
-        { centroidMm: [-8, 5, 0], longestAxialMm: 15 },
-        { centroidMm: [200, 0, 0], longestAxialMm: 9 },
+        { centroidMm: [10, 0, 0], viableAxialMm: 12 },
+        { centroidMm: [-8, 5, 0], viableAxialMm: 15 },
+        { centroidMm: [200, 0, 0], viableAxialMm: 9 },
       ],
     );
     expect(viable.get('L1')).toBe(15);
