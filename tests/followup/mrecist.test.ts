@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { mrecistTargetCategory, selectViableTargets, viableFromComponents } from '../../src/followup/mrecist.js';
-import { runFollowup, type FollowupLesion, type FollowupVisit } from '../../src/followup/followup.js';
+import { runFollowup, showsViable, type FollowupLesion, type FollowupVisit } from '../../src/followup/followup.js';
 
 // mRECIST for HCC: Lencioni and Llovet, Semin Liver Dis 2010;30:52-60 (recalled from memory): the
 // RECIST response categories measured on the longest diameter of viable tumour, i.e. tumour that
@@ -104,6 +104,9 @@ describe('mRECIST through the follow-up', () => {
     expect(recist[1]).toMatchObject({ targetSumMm: 38, changeFromBaselinePct: -5, category: 'SD' });
     expect(recist[2].category).toBe('SD');
     expect(r.tracks[0].viableAxialMm).toEqual({ v1: 32, v2: 12, v3: 0 });
+    // Per visit, per lesion, for the tables that list lesions.
+    expect(r.visits.map((v) => v.viableAxialMm)).toEqual([{ M1: 32 }, { M1: 12 }, { M1: 0 }]);
+    expect(showsViable(r)).toBe(true);
   });
 
   it('is not evaluable where a later visit gives no viable diameter', () => {
@@ -121,6 +124,9 @@ describe('mRECIST through the follow-up', () => {
     const r = runFollowup(visits, { marginMm: 10, criteria: 'mRECIST' });
     expect(r.criteria).toBe('RECIST 1.1');
     expect(r.warnings.join(' ')).toMatch(/mRECIST/);
+    // No viable measure anywhere and RECIST 1.1 in force: no viable column anywhere.
+    expect(showsViable(r)).toBe(false);
+    expect(r.visits.every((v) => v.viableAxialMm === undefined)).toBe(true);
     expect(r.visits[1].otherResponses).toHaveLength(0);
   });
 });

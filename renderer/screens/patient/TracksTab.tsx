@@ -1,10 +1,11 @@
 import { useCallback, useState } from 'react';
-import type { TrackSummary } from '../../../src/followup/followup';
+import { showsViable, type TrackSummary } from '../../../src/followup/followup';
 import { MAX_TARGETS_PER_ORGAN } from '../../../src/followup/recist';
 import type { AuditRecord, JsonValue } from '../../../src/model/records';
 import { usePatient } from '../../analysis/PatientContext';
 import { trackOfLesion } from '../../charts/chart-data';
 import { errorText } from '../../error-text';
+import { fmtMm } from '../../format';
 import { appDb } from '../../store/db';
 import { patientTrail } from '../../store/patients';
 import {
@@ -53,6 +54,7 @@ export function TracksTab() {
   const holder = trackOfLesion(f);
   const busy = state.status === 'running';
   const baseline = visits[0]?.id;
+  const viable = showsViable(f);
   const targets = pending?.over === analysis ? pending.targets : f.targets.tracks;
   const trackLabel = (ref: string | undefined) => {
     if (!ref) return '';
@@ -153,6 +155,11 @@ export function TracksTab() {
                           </button>
                         ))}
                         <span className="cell-facts">{t.segments[v.id] ?? 'outside'} · {t.longestAxialMm[v.id]} mm</span>
+                        {viable && (
+                          <span className="cell-facts viable" data-testid="track-viable" title="Longest diameter of the viable (enhancing) tumour, not crossing necrosis (mRECIST)">
+                            {' '}· viable {fmtMm(t.viableAxialMm?.[v.id])}
+                          </span>
+                        )}
                         {(how === 'first' && v.id !== baseline) && <span className="tag new">new</span>}
                         {how && HOW_TEXT[how] && <span className="tag">{HOW_TEXT[how]}</span>}
                       </td>
