@@ -103,4 +103,16 @@ describe('viable tumour in the viewer and the tables', () => {
     await page.screenshot({ path: 'test-results/tracks-viable.png', fullPage: true });
     expect(errors).toEqual([]);
   });
+
+  it('the board summary shows the viable diameter beside the longest in the lesion table', async () => {
+    await page.getByTestId('tab-board').click();
+    const sheet = page.getByTestId('board-preview').getByTestId('board-sheet');
+    await sheet.waitFor({ timeout: 60_000 });
+    const t1 = followup.tracks[0];
+    const row = (await sheet.locator(`tr[data-track="${t1.id}"]`).textContent())!.replace(/\s+/g, ' ');
+    expect(row).toContain(`${t1.longestAxialMm.v1!.toFixed(1)} viable ${t1.viableAxialMm!.v1!.toFixed(1)}`);
+    expect((await sheet.textContent())!.replace(/\s+/g, ' ')).toContain('then the viable (enhancing) diameter (mm, mRECIST)');
+    await page.screenshot({ path: 'test-results/board-viable.png', fullPage: true });
+    expect(errors).toEqual([]);
+  });
 });
