@@ -100,6 +100,8 @@ describe('viable tumour in the viewer and the tables', () => {
     expect(await cell.textContent()).toBe(` · viable ${t1.viableAxialMm!.v1} mm`);
     // The mark edited above: 4.5 mm viable at v2.
     await expect.poll(() => page.locator(`[data-testid="track-row"][data-track="${t1.id}"] td[data-visit="v2"] [data-testid="track-viable"]`).textContent()).toBe(' · viable 4.5 mm');
+    // The trail keeps the change in words, before and after.
+    expect((await page.getByTestId('trail-row').allTextContents())[0]).toMatch(/lesion changed \(v2\/M1, viable diameter\)0 mm4\.5 mm$/);
     await page.screenshot({ path: 'test-results/tracks-viable.png', fullPage: true });
     expect(errors).toEqual([]);
   });

@@ -288,7 +288,8 @@ function what(a: AuditRecord): string {
   const act = ACTION_WORDS[a.action] ?? a.action;
   if (a.entity === 'override') return `${act === 'added' ? 'correction' : `correction ${act}`}: ${a.field}`;
   if (a.entity === 'patient') return a.field === '*' ? `patient ${act}` : `${a.field} ${act}`;
-  return `${a.entity} ${act}${a.field && a.field !== '*' && a.field !== a.entity ? ` (${a.field})` : ''}`;
+  const field = a.field === 'viableAxialMm' ? 'viable diameter' : a.field;
+  return `${a.entity} ${act}${field && field !== '*' && field !== a.entity ? ` (${field === 'viable diameter' ? `${a.entityId}, ${field}` : field})` : ''}`;
 }
 
 function value(v: JsonValue, field: string): string {
@@ -305,7 +306,7 @@ function value(v: JsonValue, field: string): string {
   if (typeof v === 'object') {
     return Object.entries(v).map(([k, x]) => `${FIELD_WORDS[k] ?? k} ${value(x, k)}${typeof x === 'number' && /Mm$/.test(k) ? ' mm' : ''}`).join('; ');
   }
-  return String(v);
+  return typeof v === 'number' && /Mm$/.test(field) ? `${v} mm` : String(v);
 }
 
 /** Names of stored fields as the trail shows them beside their values. */
