@@ -13,6 +13,8 @@ export interface AlertRow {
   nearestOtherSegment: SegmentName | null;
   marginMm: number | null;
   longestAxialMm: number;
+  /** Viable (enhancing) diameter where the visit gives viable measures; null when not given. */
+  viableAxialMm: number | null;
 }
 
 /** Every lesion below the margin, latest visit first, then by distance (closest first). */
@@ -25,6 +27,7 @@ export function alertRows(f: FollowupResult, visits: readonly { id: string; date
       rows.push({
         visit: v.id, date: v.date, lesion: l.id, track: tracks.get(`${v.id}/${l.id}`) ?? null, segment: l.segment,
         nearestOtherSegment: l.nearestOtherSegment, marginMm: l.marginMm, longestAxialMm: l.longestAxialMm,
+        viableAxialMm: f.visits.find((x) => x.id === v.id)?.viableAxialMm?.[l.id] ?? null,
       });
     }
   }

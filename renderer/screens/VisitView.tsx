@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useMemo, useState } from 'react';
 import { isFalciformError } from '../../src/errors';
+import { showsViable } from '../../src/followup/followup';
 import type { Vec3 } from '../../src/geometry/mat4';
 import type { WindowPreset } from '../../src/model/records';
 import { roundTo } from '../../src/rounding';
@@ -11,7 +12,7 @@ import { ConfirmDialog } from '../components/ConfirmDialog';
 import { RouteLink } from '../components/RouteLink';
 import { go } from '../navigation';
 import { appDb } from '../store/db';
-import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark } from '../store/edits';
+import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark, saveMarkViable } from '../store/edits';
 import { getSetting } from '../store/patients';
 import { useStored } from '../store/use-stored';
 import { markFromCaliper, nextMarkId } from '../viewer/caliper';
@@ -25,6 +26,7 @@ import { displayMmOfWorld, PLANES, sliceLayout, sliceStepTowardsPlus, type Plane
 import { SliceViewer, type DraftCaliper, type Tool } from '../viewer/SliceViewer';
 import { useVisitInputs } from '../viewer/useVisitInputs';
 import { useVisitVolumes } from '../viewer/useVisitVolumes';
+import { ViableLegend } from '../viewer/ViableLegend';
 import { ViewerToolbar } from '../viewer/ViewerToolbar';
 import type { VisitVolumes } from '../viewer/volume-messages';
 import { CT_PRESETS, type WindowLevel } from '../viewer/window-level';
@@ -35,11 +37,13 @@ interface ViewPrefs {
   window: WindowLevel | null;
   showSegments: boolean;
   opacity: number;
+  /** The viable-tumour mask drawn over the image, when the visit has one. */
+  showViable: boolean;
 }
 
 /** One visit: its scan with the segment map and lesions, the lesion table, marks and landmarks. */
 export function VisitView({ visitId, lesionId }: { visitId: string; lesionId?: string }) {
-  const [prefs, setPrefs] = useState<ViewPrefs>({ plane: 'axial', window: null, showSegments: true, opacity: 0.35 });
+  const [prefs, setPrefs] = useState<ViewPrefs>({ plane: 'axial', window: null, showSegments: true, opacity: 0.35, showViable: true });
   // Keyed by visit: slices, drafts and the decoding worker start afresh for each visit.
   return <VisitScreen key={visitId} visitId={visitId} lesionId={lesionId} prefs={prefs} setPrefs={setPrefs} />;
 }
@@ -166,6 +170,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           case '[': openVisit(previous); return true;
           case ']': openVisit(next); return true;
           case 'o': case 'O': setPrefs((p) => ({ ...p, showSegments: !p.showSegments })); return true;
+          case 'v': case 'V': setPrefs((p) => ({ ...p, showViable: !p.showViable })); return true;
           case 'Escape': setDraft(null); setTool('look'); setHint(null); setPlacing(null); setGrowPick(null); return true;
           default: return false;
         }
@@ -198,9 +203,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const takenIds = [...(result?.analysis.lesions.map((l) => l.id) ?? []), ...marks.map((m) => m.id)];
   const draftId = nextMarkId(takenIds);
 
-  const saveDraft = async (shortAxisMm: number) => {
+  const saveDraft = async (shortAxisMm: number, viableAxialMm?: number) => {
     if (!draft) return;
-    const mark = markFromCaliper(draftId, draft.a, draft.b, shortAxisMm);
+    const mark = markFromCaliper(draftId, draft.a, draft.b, shortAxisMm, viableAxialMm);
     if (await edit(async () => { await saveMark(db, patient.id, visitId, mark, 'create'); return `Lesion ${mark.id} added; the analysis is updating.`; })) {
       setDraft(null);
       setSelected(mark.id);
@@ -219,6 +224,15 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     if (!m) return;
     void edit(async () => { await saveMark(db, patient.id, visitId, { ...m, shortAxisMm: roundTo(shortAxisMm, 1) }, 'update'); return `Short axis of ${id} saved.`; });
   };
+
+  const setViable = (id: string, viableAxialMm: number | null) => {
+    void edit(async () => {
+      await saveMarkViable(db, patient.id, visitId, id, viableAxialMm);
+      return viableAxialMm === null ? `Viable diameter of ${id} cleared.` : `Viable diameter of ${id} saved: ${viableAxialMm.toFixed(1)} mm.`;
+    });
+  };
+  const visitFollowup = analysis?.followup.visits.find((v) => v.id === visitId);
+  const viableColumn = analysis && showsViable(analysis.followup) ? (visitFollowup?.viableAxialMm ?? {}) : null;
 
   const landmarkMode: LandmarkMode = !record || !record.volumes.includes('segments') ? 'built' : record.volumes.includes('liver') ? 'imported-with-liver' : 'imported';
   const shownLandmarks = landmarkDraft ?? inputs?.landmarks ?? null;
@@ -333,6 +347,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               onWindow={(w) => setPrefs((p) => ({ ...p, window: w }))}
               showSegments={prefs.showSegments}
               opacity={prefs.opacity}
+              showViable={prefs.showViable}
               tool={tool}
               marks={drawnMarks}
               selected={selected}
@@ -357,7 +372,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           {hint && <p className="viewer-hint" role="status" data-testid="viewer-hint">{hint}</p>}
           <p className="keys" data-testid="key-help">
             <kbd>↑</kbd>/<kbd>↓</kbd> or wheel: slice · <kbd>PgUp</kbd>/<kbd>PgDn</kbd>: 5 slices · <kbd>[</kbd>/<kbd>]</kbd>: previous/next visit ·
-            {' '}<kbd>O</kbd>: segment colours · drag: pan · <kbd>Ctrl</kbd>+wheel: zoom · right-drag: window · double-click: fit
+            {' '}<kbd>O</kbd>: segment colours ·{volumes?.viable ? <> <kbd>V</kbd>: viable tumour ·</> : null} drag: pan · <kbd>Ctrl</kbd>+wheel: zoom · right-drag: window · double-click: fit
           </p>
         </section>
         <aside className="visit-side" aria-label="Visit details">
@@ -370,6 +385,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             opacity={prefs.opacity}
             onOpacity={(opacity) => setPrefs((p) => ({ ...p, opacity }))}
           />
+          {volumes?.viable && <ViableLegend show={prefs.showViable} onShow={(showViable) => setPrefs((p) => ({ ...p, showViable }))} />}
           <LesionPanel
             lesions={result?.analysis.lesions ?? null}
             marks={marks}
@@ -381,9 +397,11 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             }}
             draft={draft}
             draftId={draftId}
-            onSaveDraft={(s) => void saveDraft(s)}
+            viable={viableColumn}
+            onSaveDraft={(s, v) => void saveDraft(s, v)}
             onCancelDraft={() => setDraft(null)}
             onShortAxis={setShortAxis}
+            onViable={setViable}
             onDelete={(id) => setConfirm({ kind: 'delete', id })}
             busy={busy}
           />

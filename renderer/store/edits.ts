@@ -96,6 +96,29 @@ export async function saveMark(
   });
 }
 
+/**
+ * Sets or clears (null) a mark's viable (enhancing) diameter for mRECIST, to 0.1 mm, with its trail
+ * entry. The marks file's own rule decides what is allowed (src/lesions/marks.ts: a length ≥ 0, no
+ * longer than the mark's longest diameter); a refused value changes nothing.
+ */
+export async function saveMarkViable(db: FalciformDb, patientId: string, visitId: string, markId: string, viableAxialMm: number | null): Promise<void> {
+  await db.transaction('rw', db.visits, db.inputs, db.audit, async () => {
+    const visit = await visitOf(db, patientId, visitId);
+    const before = await db.inputs.get(inputKey(patientId, visitId, 'marks'));
+    const { file, marks } = rawMarks(before);
+    const old = marks.find((m) => m.id === markId);
+    if (!before || !old) throw badInput(`mark ${markId}`, `is not among visit ${visitId}'s marks`);
+    const next: Record<string, unknown> = { ...old };
+    if (viableAxialMm === null) delete next.viableAxialMm;
+    else next.viableAxialMm = roundTo(viableAxialMm, 1);
+    await writeMarks(db, visit, before, file, marks.map((m) => (m === old ? next : m)));
+    await recordEdit(db, {
+      patientId, entity: 'lesion', entityId: `${visitId}/${markId}`, field: 'viableAxialMm', action: 'update',
+      oldValue: (old.viableAxialMm ?? null) as JsonValue, newValue: (next.viableAxialMm ?? null) as JsonValue,
+    });
+  });
+}
+
 /** Removes one mark from the visit's marks file (the file stays, possibly with no marks). */
 export async function deleteMark(db: FalciformDb, patientId: string, visitId: string, markId: string): Promise<void> {
   await db.transaction('rw', db.visits, db.inputs, db.audit, async () => {

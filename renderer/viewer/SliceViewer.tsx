@@ -5,7 +5,7 @@ import { distance } from '../../src/geometry/vec3';
 import type { Mark } from '../../src/lesions/marks';
 import { LANDMARK_NAMES, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks';
 import { shortAxisEnds, shortAxisOfDrag } from './caliper';
-import { composeSlice, lesionOutlines, type LesionOutline } from './compose';
+import { composeSlice, lesionOutlines, maskRuns, type LesionOutline } from './compose';
 import { LANDMARK_LABELS } from './landmark-qc';
 import { segmentOfCode } from './palette';
 import { displayMmOfWorld, extractSlice, PLANE_LABELS, sliceStepTowardsPlus, voxelIndexOfDisplay, worldOfDisplayMm, type SliceLayout } from './slice';
@@ -31,6 +31,8 @@ interface Props {
   onWindow(wl: WindowLevel): void;
   showSegments: boolean;
   opacity: number;
+  /** Draw the viable-tumour mask (hatched, dashed outline) when the visit has one. */
+  showViable: boolean;
   tool: Tool;
   marks: Mark[];
   selected: string | null;
@@ -53,6 +55,24 @@ const ORIENTATION: Record<SliceLayout['plane'], { left: string; right: string; t
   coronal: { left: 'R', right: 'L', top: 'S', bottom: 'I' },
   sagittal: { left: 'A', right: 'P', top: 'S', bottom: 'I' },
 };
+
+/** The viable overlay's hatching: one white diagonal per 6 px tile, made once. */
+let hatchTile: HTMLCanvasElement | null = null;
+function hatch(): HTMLCanvasElement {
+  if (hatchTile) return hatchTile;
+  hatchTile = document.createElement('canvas');
+  hatchTile.width = 6;
+  hatchTile.height = 6;
+  const g = hatchTile.getContext('2d')!;
+  g.strokeStyle = 'rgba(255,255,255,0.85)';
+  g.lineWidth = 1.5;
+  g.beginPath();
+  g.moveTo(-1, 7); g.lineTo(7, -1);
+  g.moveTo(5, 7); g.lineTo(7, 5);
+  g.moveTo(-1, 1); g.lineTo(1, -1);
+  g.stroke();
+  return hatchTile;
+}
 
 const fmt = (x: number) => (Math.abs(x) < 0.05 ? '0.0' : x.toFixed(1));
 
@@ -100,6 +120,9 @@ export function SliceViewer(props: Props) {
       codes: new Uint8Array(n),
       labels: new Uint16Array(n),
       outlines: [] as LesionOutline[],
+      viable: new Uint8Array(n),
+      viableRuns: [] as number[],
+      viableEdges: [] as number[],
     };
   }, [layout]);
   const widthMm = layout.width * layout.colMm;
@@ -139,6 +162,14 @@ export function SliceViewer(props: Props) {
       extractSlice(volumes.lesions.labels, volumes.dims, layout, slice, scratch.labels);
       scratch.outlines = lesionOutlines(scratch.labels, width, height);
     } else scratch.outlines = [];
+    if (volumes.viable) {
+      extractSlice(volumes.viable, volumes.dims, layout, slice, scratch.viable);
+      scratch.viableRuns = maskRuns(scratch.viable, width, height);
+      scratch.viableEdges = lesionOutlines(scratch.viable, width, height)[0]?.edges ?? [];
+    } else {
+      scratch.viableRuns = [];
+      scratch.viableEdges = [];
+    }
     imageVersion.current++;
     if (box.current) box.current.dataset.image = String(imageVersion.current);
   }, [volumes, layout, slice, props.window, props.showSegments, props.opacity, scratch]);
@@ -178,6 +209,30 @@ export function SliceViewer(props: Props) {
       g.fillStyle = '#ffffff';
       g.fillText(text, x, y);
     };
+    if (props.showViable && scratch.viableRuns.length > 0) {
+      // Viable tumour: white hatching over its voxels and a dashed outline, told from the solid lesion
+      // outlines and the segment colours by pattern rather than by colour.
+      const runs = scratch.viableRuns;
+      g.beginPath();
+      for (let k = 0; k < runs.length; k += 3) g.rect(view.panX + runs[k + 1] * sx, view.panY + runs[k] * sy, (runs[k + 2] - runs[k + 1]) * sx, sy);
+      g.fillStyle = g.createPattern(hatch(), 'repeat') ?? 'rgba(255,255,255,0.3)';
+      g.fill();
+      const e = scratch.viableEdges;
+      g.beginPath();
+      for (let k = 0; k < e.length; k += 4) {
+        g.moveTo(view.panX + e[k] * sx, view.panY + e[k + 1] * sy);
+        g.lineTo(view.panX + e[k + 2] * sx, view.panY + e[k + 3] * sy);
+      }
+      g.setLineDash([]);
+      g.lineWidth = 3;
+      g.strokeStyle = 'rgba(0,0,0,0.7)';
+      g.stroke();
+      g.setLineDash([4, 3]);
+      g.lineWidth = 1.5;
+      g.strokeStyle = '#ffffff';
+      g.stroke();
+      g.setLineDash([]);
+    }
     for (const o of scratch.outlines) {
       const id = ids[o.label - 1] ?? `?${o.label}`;
       const chosen = id === props.selected;

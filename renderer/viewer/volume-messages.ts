@@ -21,6 +21,8 @@ export interface VisitVolumes {
   segmentProblem: string | null;
   /** Lesion-mask lesions on the scan grid: value n is lesion ids[n − 1]. */
   lesions: { labels: Uint8Array | Uint16Array; ids: string[] } | null;
+  /** The viable (enhancing) tumour mask on the scan grid, 1 where viable; null when the visit has none. */
+  viable: Uint8Array | null;
   /** World bounding box of the liver mask, when the visit has one. */
   liverBoxMm: { min: Vec3; max: Vec3 } | null;
   warnings: string[];

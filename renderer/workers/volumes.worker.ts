@@ -77,6 +77,18 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
     lesions = { labels: resampleNearest(own, mask, scan), ids: found.lesions.map((_, n) => `L${n + 1}`) };
   }
 
+  let viable: Uint8Array | null = null;
+  if (v.viable !== undefined) {
+    const mask = (await files.volume(v.viable)).volume;
+    const own = new Uint8Array(mask.data.length);
+    const { data, slope, inter } = mask;
+    for (let n = 0; n < own.length; n++) {
+      const x = data[n] * slope + inter;
+      if (x !== 0 && x === x) own[n] = 1;
+    }
+    viable = resampleNearest(own, mask, scan);
+  }
+
   progress(3, total, 'preparing the display');
   return {
     patientId,
@@ -92,9 +104,10 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
     segments,
     segmentProblem,
     lesions,
+    viable,
     liverBoxMm,
     warnings,
   };
 }
 
-serveJob(load, (v) => [v.scan, v.segments?.codes, v.lesions?.labels].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));
+serveJob(load, (v) => [v.scan, v.segments?.codes, v.lesions?.labels, v.viable].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));

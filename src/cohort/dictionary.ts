@@ -42,7 +42,7 @@ const ENTRIES: Record<CaseFormColumn, Entry> = {
   slice_thickness_mm: ['number', 'mm', "The scan's voxel spacing along the axial normal"],
   reader: ['text', '', 'Who read the visit (manifest reader, else the reader name set in the app)'],
   reading_date: ['date', '', 'Date the visit was read, from the manifest; empty when not given'],
-  viable_axial_mm: ['number', 'mm', 'Longest diameter of the viable (enhancing) tumour (mRECIST); empty when not given'],
+  viable_axial_mm: ['number', 'mm', 'Longest diameter of the viable (enhancing) tumour, not crossing necrosis (mRECIST); empty when not given'],
   new_lesion_call: ['text', '', 'For a lesion first seen after baseline: unequivocal (PD) or equivocal (followed), by the reader or the size rule'],
   non_target_call: ['text', '', "The reader's call on the non-targets: present, absent or unequivocal-progression"],
   outside_liver: ['text', '', "The reader's assessment outside the liver: none, not-assessed, stable or progression"],

@@ -112,6 +112,11 @@ export interface VisitFollowup {
   notEvaluable: string[];
   marginAlerts: string[];
   alignment: VisitAlignmentSummary;
+  /**
+   * Viable (arterially enhancing) diameter per lesion id, mm, where the visit gives viable measures
+   * (marks' `viableAxialMm` or a viable-tumour mask); null for a lesion without one.
+   */
+  viableAxialMm?: Record<string, number | null>;
 }
 
 export interface TrackSummary {
@@ -397,6 +402,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
       notEvaluable: withStatus('not-evaluable'),
       marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => belowMargin(l, opts.marginMm))).map((t) => t.id),
       alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
+      ...(viable[k] ? { viableAxialMm: Object.fromEntries(v.lesions.map((l) => [l.id, viableOf(viable[k]!, l.id)])) } : {}),
     };
   });
 
@@ -427,6 +433,19 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     warnings,
     notes: FOLLOWUP_NOTES,
   };
+}
+
+function viableOf(map: ReadonlyMap<string, number | null>, id: string): number | null {
+  const x = map.get(id);
+  return x === undefined || x === null ? null : round1(x);
+}
+
+/**
+ * Whether a follow-up's screens and reports show viable diameters: under mRECIST, or wherever a
+ * visit gives a viable measure.
+ */
+export function showsViable(f: Pick<FollowupResult, 'criteria' | 'visits'>): boolean {
+  return f.criteria === 'mRECIST' || f.visits.some((v) => v.viableAxialMm !== undefined);
 }
 
 /** A margin alert under the patient's margin (a lesion without a measured margin keeps its own flag). */

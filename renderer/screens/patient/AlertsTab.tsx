@@ -1,3 +1,4 @@
+import { showsViable } from '../../../src/followup/followup';
 import { usePatient } from '../../analysis/PatientContext';
 import { alertRows } from '../../charts/alert-rows';
 import { oneDecimal } from '../../format';
@@ -9,6 +10,7 @@ export function AlertsTab() {
   if (!analysis) return null;
   const f = analysis.followup;
   const rows = alertRows(f, analysis.visits);
+  const viable = showsViable(f);
   const latest = analysis.visits[analysis.visits.length - 1]?.id;
   return (
     <section aria-labelledby="alerts-title">
@@ -25,6 +27,7 @@ export function AlertsTab() {
             <tr>
               <th scope="col">Date</th><th scope="col">Visit</th><th scope="col">Lesion</th><th scope="col">Track</th><th scope="col">Segment</th>
               <th scope="col">Neighbouring segment</th><th scope="col">Distance to border (mm)</th><th scope="col">Longest axial (mm)</th>
+              {viable && <th scope="col" title="Longest diameter of the viable (enhancing) tumour, mRECIST">Viable (mm)</th>}
               <th scope="col"><span className="sr-only">Open</span></th>
             </tr>
           </thead>
@@ -39,6 +42,7 @@ export function AlertsTab() {
                 <td>{r.nearestOtherSegment ?? '—'}</td>
                 <td className="num alert-cell" data-testid="alert-margin">{oneDecimal(r.marginMm)}</td>
                 <td className="num">{oneDecimal(r.longestAxialMm)}</td>
+                {viable && <td className="num">{oneDecimal(r.viableAxialMm)}</td>}
                 <td>
                   <RouteLink to={{ screen: 'visit', patientId: patient.id, visitId: r.visit, lesionId: r.lesion }} data-testid="alert-open">
                     Show {r.lesion} in the viewer ›

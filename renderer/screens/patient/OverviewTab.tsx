@@ -23,7 +23,7 @@ export function OverviewTab() {
             <th scope="col">Segment map</th>
             <th scope="col">Lesions</th>
             <th scope="col">Margin alerts</th>
-            <th scope="col">Target sum</th>
+            <th scope="col">Target sum{analysis.followup.criteria === 'mRECIST' ? ' (viable)' : ''}</th>
             <th scope="col">vs baseline</th>
             <th scope="col">vs nadir</th>
             <th scope="col">Response ({analysis.followup.criteria}, computed)</th>
