@@ -11,7 +11,8 @@ import { DEFAULT_SETTINGS, INPUT_KINDS, VOLUME_ROLES, type TableName } from '../
  */
 const id = z.string().min(1).max(200);
 const text = z.string().max(100_000);
-const name = z.string().max(1000);
+// File and folder names as imported: a path, so as long as a file system allows.
+const name = z.string().max(4096);
 /** An ISO date-time as `toISOString` writes it. */
 const isoTime = z.iso.datetime();
 const finite = z.number();
