@@ -65,4 +65,12 @@ describe('patients', () => {
     const entry = (await db.audit.toArray()).find((a) => a.entity === 'setting');
     expect(entry).toMatchObject({ entityId: 'marginMm', oldValue: 10, newValue: 5, action: 'update' });
   });
+
+  it('a stored setting the app cannot use reads as its default instead of reaching a screen', async () => {
+    const db = await twoPatients();
+    await db.settings.bulkPut([{ key: 'windowPresets', value: 'Liver' }, { key: 'readerName', value: { name: 'Dr A' } }, { key: 'marginMm', value: -3 }]);
+    expect(await getSetting(db, 'windowPresets')).toEqual(DEFAULT_SETTINGS.windowPresets);
+    expect(await getSetting(db, 'readerName')).toBe('');
+    expect(await getSetting(db, 'marginMm')).toBe(10);
+  });
 });
