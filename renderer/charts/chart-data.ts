@@ -1,5 +1,5 @@
 import type { FollowupResult } from '../../src/followup/followup.js';
-import { compareIds } from '../../src/followup/ids.js';
+import { compareTrackIds } from '../../src/followup/ids.js';
 import type { OverallCategory } from '../../src/followup/recist.js';
 import type { Criteria, VisitResponse } from '../../src/followup/response.js';
 import type { TrackStatus } from '../../src/followup/tracks.js';
@@ -66,7 +66,7 @@ export function lesionSeries(f: FollowupResult): LesionSeries[] {
     }
     return { track: track.id, segment, target: track.target, points };
   });
-  return series.sort((a, b) => segmentRank(a.segment) - segmentRank(b.segment) || compareIds(a.track, b.track));
+  return series.sort((a, b) => segmentRank(a.segment) - segmentRank(b.segment) || compareTrackIds(a.track, b.track));
 }
 
 export interface BurdenPoint extends TimePoint {

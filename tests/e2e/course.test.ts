@@ -199,8 +199,8 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     const trackIds = () => page.getByTestId('track-row').evaluateAll((els) => els.map((e) => e.getAttribute('data-track')));
     const trail = () => page.getByTestId('trail-row').allTextContents();
     const before = await trackIds();
-    const lesion = cliFollowup('DEMO-0001').tracks.find((t) => t.id === 'T1')!.lesions.v2;
-    expect(await cell('T1', 'v2').getAttribute('data-lesion')).toBe(lesion);
+    const lesion = cliFollowup('DEMO-0001').tracks.find((t) => t.id === 'A')!.lesions.v2;
+    expect(await cell('A', 'v2').getAttribute('data-lesion')).toBe(lesion);
     const chip = page.locator(`[data-testid="lesion-chip"][data-visit="v2"][data-lesion="${lesion}"]`);
     // The treatment event added and deleted on the course tab is in the trail, newest first, its values labelled.
     expect((await trail()).slice(0, 2)).toEqual([
@@ -208,29 +208,29 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
       expect.stringMatching(/treatment added.*date 2026-05-18; kind resection; label Resection, segment II/),
     ]);
 
-    // Unlink T1's lesion at v2 from T1: it starts a track of its own, T1 is gone at v2.
+    // Unlink A's lesion at v2 from A: it starts a track of its own, A is gone at v2.
     await chip.click();
     await page.getByTestId('unlink-lesion').click();
-    await expect.poll(() => cell('T1', 'v2').getAttribute('data-status'), { timeout: 90_000 }).toBe('gone');
+    await expect.poll(() => cell('A', 'v2').getAttribute('data-status'), { timeout: 90_000 }).toBe('gone');
     await page.getByTestId('analysis-progress').waitFor({ state: 'detached', timeout: 90_000 });
     const after = await trackIds();
     expect(after).toHaveLength(before.length + 1);
     const fresh = after.find((t) => !before.includes(t))!;
     expect(await cell(fresh, 'v2').getAttribute('data-lesion')).toBe(lesion);
-    expect((await trail())[0]).toMatch(new RegExp(`correction: unlink v2/${lesion}.*T1.*not T1`));
+    expect((await trail())[0]).toMatch(new RegExp(`correction: unlink v2/${lesion}.*A.*not A`));
     expect(await page.getByTestId('override-row').count()).toBe(1);
     await page.screenshot({ path: 'test-results/tracks-unlinked.png', fullPage: true });
 
-    // Link it back to T1: the original tracks return, the link marked as the reader's.
+    // Link it back to A: the original tracks return, the link marked as the reader's.
     await chip.click();
-    await page.getByTestId('link-track').selectOption('T1');
+    await page.getByTestId('link-track').selectOption('A');
     await page.getByTestId('link-lesion').click();
-    await expect.poll(() => cell('T1', 'v2').getAttribute('data-lesion'), { timeout: 90_000 }).toBe(lesion);
+    await expect.poll(() => cell('A', 'v2').getAttribute('data-lesion'), { timeout: 90_000 }).toBe(lesion);
     await page.getByTestId('analysis-progress').waitFor({ state: 'detached', timeout: 90_000 });
     expect(await trackIds()).toEqual(before);
-    expect(await cell('T1', 'v2').textContent()).toContain('linked by reader');
+    expect(await cell('A', 'v2').textContent()).toContain('linked by reader');
     const entries = await trail();
-    expect(entries[0]).toMatch(new RegExp(`correction: link v2/${lesion}.*${fresh}.*T1`));
+    expect(entries[0]).toMatch(new RegExp(`correction: link v2/${lesion}.*${fresh}.*A`));
     expect(entries[1]).toMatch(new RegExp(`correction removed: unlink v2/${lesion}`));
     await page.screenshot({ path: 'test-results/tracks-linked.png', fullPage: true });
 
