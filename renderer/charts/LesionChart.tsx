@@ -41,11 +41,11 @@ export function LesionChart(props: { series: LesionSeries[]; time: CourseTime })
       legend={<SegmentLegend entries={series.map((s) => ({ segment: s.segment, label: s.track }))} />}
       values={
         <table className="data-table compact fit" data-testid="values-lesions">
-          <thead><tr><th scope="col">Track</th><th scope="col">Visit</th><th scope="col">Date</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th><th scope="col">Status</th></tr></thead>
+          <thead><tr><th scope="col">Track</th><th scope="col">Target</th><th scope="col">Visit</th><th scope="col">Date</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th><th scope="col">Status</th></tr></thead>
           <tbody>
             {series.flatMap((s) => s.points.map((p) => (
               <tr key={`${p.track}-${p.visit}`} data-testid="lesion-value" data-track={p.track} data-visit={p.visit} data-mm={p.mm}>
-                <th scope="row">{p.track}{s.target ? ' (target)' : ''}</th><td>{p.visit}</td><td>{p.date}</td><td>{p.segment ?? 'outside'}</td><td className="num">{oneDecimal(p.mm)}</td><td>{STATUS_WORDS[p.status] ?? p.status}</td>
+                <th scope="row">{p.track}</th><td>{s.target ? 'yes' : 'no'}</td><td>{p.visit}</td><td>{p.date}</td><td>{p.segment ?? 'outside'}</td><td className="num">{oneDecimal(p.mm)}</td><td>{STATUS_WORDS[p.status] ?? p.status}</td>
               </tr>
             )))}
           </tbody>

@@ -95,9 +95,9 @@ describe('chart series from the follow-up', () => {
     const lr = (l: FollowupLesion, nearest: SegmentName | null): LesionResult =>
       ({ ...l, viableAxialMm: undefined, marginMm: l.marginMm ?? null, nearestOtherSegment: nearest, segmentFractions: {}, shortAxisMm: 0, source: 'mask', max3dMm: null, meanValue: null, longestAxialEndpointsMm: null, voxelCount: 0, segmentWarning: null });
     const visits = series.map((v) => ({ id: v.id, date: v.date, analysis: { lesions: v.lesions.map((l) => lr(l, l.segment === 'VI' ? 'V' : 'IVa')) } }));
-    expect(alertRows(f, visits).map((r) => [r.visit, r.lesion, r.track, r.segment, r.nearestOtherSegment, r.marginMm])).toEqual([
-      ['v3', 'L4', 'D', 'VI', 'V', 0],
-      ['v2', 'L2', 'B', 'VIII', 'IVa', 4.2],
+    expect(alertRows(f, visits).map((r) => [r.visit, r.lesion, r.track, r.target, r.segment, r.nearestOtherSegment, r.marginMm])).toEqual([
+      ['v3', 'L4', 'D', false, 'VI', 'V', 0],
+      ['v2', 'L2', 'B', true, 'VIII', 'IVa', 4.2],
     ]);
     // The same lesions the follow-up lists as alerts, visit by visit (track ids).
     expect(f.visits.map((v) => v.marginAlerts)).toEqual([[], ['B'], ['D']]);
