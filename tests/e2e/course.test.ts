@@ -119,6 +119,42 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     await page.screenshot({ path: 'test-results/course-DEMO-0001.png', fullPage: true });
   });
 
+  it('DEMO-0001: each lesion line is labelled with its track id at its last point, the labels nudged apart', async () => {
+    const fu = cliFollowup('DEMO-0001');
+    await openTab('DEMO-0001', 'course', 'chart-response');
+    const lesions = await points('lesion', ['track', 'visit']);
+    const labels = await page.getByTestId('line-end-label').evaluateAll((els) => els.map((g) => {
+      const text = g.querySelector('text')!;
+      const box = (text as SVGTextElement).getBBox();
+      return {
+        track: g.getAttribute('data-track')!, text: text.textContent, pointY: Number(g.getAttribute('data-point-y')),
+        x: box.x, y: box.y, width: box.width, height: box.height, leader: g.querySelector('line') !== null,
+      };
+    }));
+    expect(labels.map((l) => l.track).sort()).toEqual(fu.tracks.map((t) => t.id).sort());
+    const lastVisit = (track: string) => Object.keys(fu.tracks.find((t) => t.id === track)!.longestAxialMm).pop()!;
+    for (const l of labels) {
+      expect(l.text).toBe(l.track);
+      // At the line's last point: right of it, and at its height unless nudged (then with a leader).
+      const end = lesions.find((p) => p.track === l.track && p.visit === lastVisit(l.track))!;
+      expect(Math.abs(l.pointY - (end.cy as number))).toBeLessThan(0.5);
+      expect(l.x).toBeGreaterThan(end.cx as number);
+      const centre = l.y + l.height / 2;
+      if (!l.leader) expect(Math.abs(centre - l.pointY)).toBeLessThan(2);
+    }
+    // No two labels overlap (their text boxes, as the browser laid them out).
+    for (const a of labels) {
+      for (const b of labels) {
+        if (a === b) continue;
+        const apart = a.x + a.width <= b.x || b.x + b.width <= a.x || a.y + a.height <= b.y || b.y + b.height <= a.y;
+        expect(apart, `${a.track} and ${b.track}`).toBe(true);
+      }
+    }
+    // DEMO-0001's A and B end 2 mm apart (12 and 14 mm at v4), closer than a label's height: nudged.
+    expect(labels.filter((l) => l.leader).map((l) => l.track).sort()).toEqual(['A', 'B']);
+    await page.getByTestId('chart-lesions').screenshot({ path: 'test-results/course-lesion-labels.png' });
+  });
+
   it('DEMO-0001: a treatment event added on the course tab appears on every chart, and goes when deleted', async () => {
     await page.getByTestId('treatment-date').fill('2026-05-18');
     await page.getByTestId('treatment-kind').selectOption('resection');
