@@ -39,7 +39,7 @@ export function LesionChart(props: { series: LesionSeries[]; time: CourseTime })
       id="lesions"
       title="Longest axial diameter per lesion track"
       note="Larger points and heavier lines: RECIST targets. A gone or merged track is drawn at 0 mm."
-      legend={<SegmentLegend entries={series.map((s) => ({ segment: s.segment, label: s.track }))} />}
+      legend={<SegmentLegend entries={series.map((s) => ({ segment: s.segment, label: s.target ? `${s.track} (target)` : s.track }))} />}
       values={
         <table className="data-table compact fit" data-testid="values-lesions">
           <thead><tr><th scope="col">Track</th><th scope="col">Target</th><th scope="col">Visit</th><th scope="col">Date</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th><th scope="col">Status</th></tr></thead>
