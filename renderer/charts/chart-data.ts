@@ -137,7 +137,7 @@ export function responseData(f: FollowupResult, criteria: Criteria = f.criteria)
   for (const v of f.visits) {
     const r = responseOf(v, criteria);
     if (!r) continue;
-    targets = r.targets.map((x) => x.track);
+    targets = r.targets.map((x) => x.track).sort(compareTrackIds);
     points.push({
       visit: v.id, date: v.date, t: dateMs(v.date), sumMm: r.targetSumMm, complete: r.targetSumComplete, category: r.category,
       changeFromBaselinePct: r.changeFromBaselinePct, changeFromNadirPct: r.changeFromNadirPct, nadirSumMm: r.nadirSumMm,

@@ -114,6 +114,13 @@ describe('lesion tracks', () => {
     expect(['T1', 'T3', 'T26', 'T27', 'v1:L2', 'C', 'T0', 'T'].map(currentTrackRef)).toEqual(['A', 'C', 'Z', 'AA', 'v1:L2', 'C', 'T0', 'T']);
   });
 
+  it('goes on past Z to AA, AB for the 27th and 28th lesion, and a link may name such a track', () => {
+    const many = (id: string) => visit(id, Array.from({ length: 28 }, (_, n): L => [`L${n + 1}`, n * 60, 0, 12]));
+    const { tracks } = buildTracks([many('v1'), many('v2')], [{ kind: 'link', visit: 'v2', lesion: 'L1', track: 'AB' }]);
+    expect(tracks.map((t) => t.id)).toEqual([...'ABCDEFGHIJKLMNOPQRSTUVWXYZ', 'AA', 'AB', 'AC']);
+    expect(tracks[27]).toMatchObject({ id: 'AB', visits: [{ lesions: ['L28'] }, { lesions: ['L1'], how: 'override' }] });
+  });
+
   it('letters tracks in order of first appearance, within a visit in natural lesion-id order', () => {
     expect(['L10', 'L2', 'L1'].sort(compareIds)).toEqual(['L1', 'L2', 'L10']);
     const { rows } = table([visit('v1', [['L10', 0, 0, 12], ['L2', 50, 0, 12], ['L1', 100, 0, 12]]), visit('v2', [['L1', 100, 0, 12], ['L9', 0, 80, 12], ['L2', 50, 0, 12], ['L10', 0, 0, 12]])]);
