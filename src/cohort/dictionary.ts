@@ -12,7 +12,7 @@ const ENTRIES: Record<CaseFormColumn, Entry> = {
   visit: ['text', '', 'Visit id from the manifest'],
   date: ['date', '', 'Visit date, ISO 8601 (YYYY-MM-DD)'],
   days_from_baseline: ['integer', 'days', 'Whole days from the first (baseline) visit; 0 at baseline'],
-  track: ['text', '', 'Lesion track id: the same lesion followed over visits'],
+  track: ['text', '', 'Lesion track id (A, B, ... Z, AA, AB, ... in order of first appearance): the same lesion followed over visits; not a target number, see target'],
   lesion: ['text', '', "The lesion's id at this visit; empty on a row for an absent track"],
   status: ['text', '', 'present, or for an absent track gone, merged or not-evaluable'],
   source: ['text', '', 'mask (measured from a lesion mask) or mark (a manual mark)'],

@@ -7,7 +7,7 @@ import type { SegmentName } from '../segments/segment-map.js';
 import type { Volume } from '../volume/volume.js';
 import { alignVisit, referenceAlignment, type Alignment, type AlignmentMethod } from './align.js';
 import { burdenBySegment, type BurdenRow } from './burden.js';
-import { compareIds } from './ids.js';
+import { compareIds, currentTrackRef } from './ids.js';
 import { describeLiver, insideGrid, type LiverShape } from './liver-shape.js';
 import { bestOverallResponse, type BestResponse } from './best-response.js';
 import { mrecistNewLesionCounts, mrecistTargetCategory, selectViableTargets, viableFromComponents, type ViableComponent } from './mrecist.js';
@@ -74,7 +74,7 @@ export interface FollowupVisit {
 }
 
 export interface FollowupOptions {
-  /** Target tracks named by the user ("T1", …); default RECIST 1.1 selection otherwise. */
+  /** Target tracks named by the user ("A", …; the old "T1" is read as "A"); default RECIST 1.1 selection otherwise. */
   targets?: readonly string[];
   overrides?: readonly Override[];
   marginMm: number;
@@ -237,7 +237,8 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     warnings.push('mRECIST asked for, but the baseline visit gives no viable-tumour diameters; RECIST 1.1 used instead');
     criteria = 'RECIST 1.1';
   }
-  const named = opts.targets && opts.targets.length > 0 ? [...opts.targets] : null;
+  // A target named the old way ("T1") is read as its letter ("A").
+  const named = opts.targets && opts.targets.length > 0 ? opts.targets.map(currentTrackRef) : null;
   if (named) validateNamedTargets(named, baselineTracks, (t) => measuredAt(t, 0), visits[0].sliceThicknessMm, warnings);
   const recistTargets =
     named ??
@@ -260,10 +261,10 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
   const protocol = withProtocolDefaults(opts.protocol);
   const visitIndex = new Map(visits.map((v, k) => [v.id, k]));
   const calls = visits.map((v) => v.readerCalls ?? {});
-  // "T3", or "v1:L2" for the track holding L2 at v1.
+  // "C" (or the old "T3"), or "v1:L2" for the track holding L2 at v1.
   const resolveTrack = (ref: string): Track | undefined => {
     const colon = ref.indexOf(':');
-    if (colon < 0) return trackById.get(ref);
+    if (colon < 0) return trackById.get(currentTrackRef(ref));
     const k = visitIndex.get(ref.slice(0, colon));
     const lesion = ref.slice(colon + 1);
     return k === undefined ? undefined : tracks.find((t) => t.visits[k]?.lesions.includes(lesion));

@@ -23,7 +23,7 @@ const id = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must be 1–64
 export const readerCalls = z.strictObject({
   newLesions: z.record(id, z.enum(NEW_LESION_CALLS)).optional(),
   tooSmall: z.array(id).optional(),
-  confirmedGone: z.array(z.string().regex(/^([A-Za-z0-9][A-Za-z0-9._-]{0,63}:)?[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must name a track as "T1" or "v1:L2"')).optional(),
+  confirmedGone: z.array(z.string().regex(/^([A-Za-z0-9][A-Za-z0-9._-]{0,63}:)?[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must name a track as "A" or "v1:L2"')).optional(),
   nonTarget: z.enum(NON_TARGET_CALLS).optional(),
   outsideLiver: z.enum(OUTSIDE_LIVER_CALLS).optional(),
 });

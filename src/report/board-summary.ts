@@ -1,7 +1,7 @@
 import { bestResponseText } from '../followup/best-response.js';
 import { CAUTION } from '../caution.js';
 import { showsViable } from '../followup/followup.js';
-import { compareIds } from '../followup/ids.js';
+import { compareTrackIds } from '../followup/ids.js';
 import type { Criteria } from '../followup/response.js';
 import type { TrackStatus } from '../followup/tracks.js';
 import type { PatientRemnant } from '../remnant/for-patient.js';
@@ -361,7 +361,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
 
 function boardRemnant(r: PatientRemnant): BoardRemnant {
   // Lesions are named by their track where follow-up linked one, as everywhere else on the page.
-  const label = (ids: readonly string[]) => [...new Set(ids.map((id) => r.lesionTracks[id] ?? id))].sort(compareIds);
+  const label = (ids: readonly string[]) => [...new Set(ids.map((id) => r.lesionTracks[id] ?? id))].sort(compareTrackIds);
   return {
     visit: r.visitId,
     date: r.visitDate,

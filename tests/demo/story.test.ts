@@ -41,6 +41,8 @@ describe('demo scenario, as designed', () => {
     expect(f.tracks).toHaveLength(3);
     for (const t of f.tracks) expect(Object.values(t.segments)).toEqual(Array(4).fill(t.segments.v1));
     expect(f.visits.flatMap((v) => [...v.newLesions, ...v.goneLesions, ...v.marginAlerts])).toEqual([]);
+    // Tracks are lettered in order of first appearance; the target flag is said beside the id.
+    expect(f.tracks.map((t) => [t.id, t.segments.v1, t.target])).toEqual([['A', 'V', true], ['B', 'VII', true], ['C', 'II', false]]);
   });
 
   it('DEMO-0002: HCC in VIII ablated (mRECIST CR, RECIST not), then a new lesion in VI (PD)', () => {

@@ -35,12 +35,12 @@ describe('mRECIST target categories', () => {
     // Source: mRECIST target lesions must be RECIST-measurable and show intratumoral arterial enhancement.
     expect(
       selectViableTargets([
-        { id: 'T1', longestMm: 50, measurable: true, viableMm: 0 },
-        { id: 'T2', longestMm: 25, measurable: true, viableMm: 18 },
-        { id: 'T3', longestMm: 30, measurable: true, viableMm: 22 },
-        { id: 'T4', longestMm: 8, measurable: false, viableMm: 8 },
+        { id: 'A', longestMm: 50, measurable: true, viableMm: 0 },
+        { id: 'B', longestMm: 25, measurable: true, viableMm: 18 },
+        { id: 'C', longestMm: 30, measurable: true, viableMm: 22 },
+        { id: 'D', longestMm: 8, measurable: false, viableMm: 8 },
       ]),
-    ).toEqual(['T3', 'T2']);
+    ).toEqual(['C', 'B']);
   });
 
   it('a tiny viable focus does not qualify a lesion as a target, however large the lesion', () => {

@@ -23,8 +23,8 @@ beforeEach(async () => {
     centroidMm: [-0, 5.25, 10.125], segment: 'V', segmentFractions: { V: 0.75, VIII: 0.25 }, volumeMl: 2.1,
     longestAxialMm: 18.4, shortAxisMm: 15.1, marginMm: null, nearestOtherSegment: null, marginAlert: false,
   });
-  await source.tracks.add({ key: 'DEMO-0301/T1', patientId: 'DEMO-0301', id: 'T1', lesions: { v1: 'L1', v2: 'M1' }, target: true });
-  await source.overrides.add({ id: 'o-1', patientId: 'DEMO-0301', kind: 'link', visit: 'v2', lesion: 'M1', track: 'T1', at: '2026-04-01T09:00:00.000Z' });
+  await source.tracks.add({ key: 'DEMO-0301/A', patientId: 'DEMO-0301', id: 'A', lesions: { v1: 'L1', v2: 'M1' }, target: true });
+  await source.overrides.add({ id: 'o-1', patientId: 'DEMO-0301', kind: 'link', visit: 'v2', lesion: 'M1', track: 'A', at: '2026-04-01T09:00:00.000Z' });
   await updatePatient(source, 'DEMO-0301', { marginMm: 12, label: 'bed 4' });
   await setSetting(source, 'marginMm', 7.5);
 });
@@ -95,12 +95,26 @@ describe('backup and restore', () => {
     expect((await failure(readBackup(newer, 'x.falciform'))).problem).toMatch(/backup format 2, newer than this Falciform reads/);
   });
 
+  it('restores a backup from when tracks were numbered with the tracks lettered', async () => {
+    const file = await createBackup(source, 'all');
+    const old = reseal(file, (i) => {
+      i.schemaVersion = 2;
+      (i.tables.patients[0] as { targets?: string[] }).targets = ['T2', 'T1'];
+      i.tables.tracks[0] = { ...(i.tables.tracks[0] as object), key: 'DEMO-0301/T1', id: 'T1' };
+      (i.tables.overrides[0] as { track: string }).track = 'T28';
+    });
+    const { tables } = await readBackup(old, 'old.falciform');
+    expect(tables.patients.find((p) => p.id === 'DEMO-0301')!.targets).toEqual(['B', 'A']);
+    expect(tables.tracks.map((t) => [t.key, t.id])).toEqual([['DEMO-0301/A', 'A']]);
+    expect(tables.overrides.map((o) => o.track)).toEqual(['AB']);
+  });
+
   it('checks every record and volume even when the checksum is right', async () => {
     const file = await createBackup(source, 'all');
     const cases: [(index: Index) => void, RegExp][] = [
       [(i) => { (i.tables.visits[0] as { volumes: string[] }).volumes = ['brain']; }, /visits record 1 \(v1\): field volumes.0/],
       [(i) => { (i.tables.volumes[0] as { dims: number[] }).dims = [1, 2, 3]; }, /volume DEMO-0301\/v1\/lesions \(a\/v1\/lesions.nii.gz\) has dimensions 64×48×40 but its record says 1×2×3/],
-      [(i) => { i.tables.tracks.push({ ...(i.tables.tracks[0] as object), key: 'X/T9', patientId: 'X', id: 'T9' }); }, /tracks record X\/T9 belongs to patient X, who is not in the backup/],
+      [(i) => { i.tables.tracks.push({ ...(i.tables.tracks[0] as object), key: 'X/I', patientId: 'X', id: 'I' }); }, /tracks record X\/I belongs to patient X, who is not in the backup/],
       [(i) => { i.tables.inputs.push(i.tables.inputs[0]); }, /inputs record DEMO-0301\/v2\/landmarks appears twice/],
       [(i) => { i.schemaVersion = 99; }, /store schema 99, newer/],
     ];

@@ -17,7 +17,7 @@ async function twoPatients(): Promise<FalciformDb> {
       key: `${id}/v1/L1`, patientId: id, visitId: 'v1', id: 'L1', source: 'mask', centroidMm: [1, 2, 3], segment: 'V',
       longestAxialMm: 12, shortAxisMm: 9, marginMm: 4, nearestOtherSegment: 'VIII', marginAlert: true,
     });
-    await db.tracks.add({ key: `${id}/T1`, patientId: id, id: 'T1', lesions: { v1: 'L1' }, target: true });
+    await db.tracks.add({ key: `${id}/A`, patientId: id, id: 'A', lesions: { v1: 'L1' }, target: true });
     await db.overrides.add({ id: `o-${id}`, patientId: id, kind: 'new', visit: 'v1', lesion: 'L1', at: '2026-04-01T00:00:00.000Z' });
   }
   return db;

@@ -25,7 +25,7 @@ export function AlertsTab() {
         <table className="data-table alert-table" data-testid="alert-table">
           <thead>
             <tr>
-              <th scope="col">Date</th><th scope="col">Visit</th><th scope="col">Lesion</th><th scope="col">Track</th><th scope="col">Segment</th>
+              <th scope="col">Date</th><th scope="col">Visit</th><th scope="col">Lesion</th><th scope="col">Track</th><th scope="col">Target</th><th scope="col">Segment</th>
               <th scope="col">Neighbouring segment</th><th scope="col">Distance to border (mm)</th><th scope="col">Longest axial (mm)</th>
               {viable && <th scope="col" title="Longest diameter of the viable (enhancing) tumour, mRECIST">Viable (mm)</th>}
               <th scope="col"><span className="sr-only">Open</span></th>
@@ -38,6 +38,7 @@ export function AlertsTab() {
                 <td>{r.visit}{r.visit === latest ? <span className="badge">latest</span> : null}</td>
                 <th scope="row">{r.lesion}</th>
                 <td>{r.track ?? '—'}</td>
+                <td data-testid="alert-target">{r.target ? 'yes' : 'no'}</td>
                 <td>{r.segment ?? 'outside'}</td>
                 <td>{r.nearestOtherSegment ?? '—'}</td>
                 <td className="num alert-cell" data-testid="alert-margin">{oneDecimal(r.marginMm)}</td>

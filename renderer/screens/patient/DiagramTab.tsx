@@ -55,11 +55,12 @@ export function DiagramTab() {
             <p className="empty">No lesion at this visit.</p>
           ) : (
             <table className="data-table compact fit" data-testid="diagram-table">
-              <thead><tr><th scope="col">Track</th><th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th>{viable && <th scope="col" title="Longest diameter of the viable (enhancing) tumour, mRECIST">Viable (mm)</th>}<th scope="col">Margin (mm)</th></tr></thead>
+              <thead><tr><th scope="col">Track</th><th scope="col">Target</th><th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th>{viable && <th scope="col" title="Longest diameter of the viable (enhancing) tumour, mRECIST">Viable (mm)</th>}<th scope="col">Margin (mm)</th></tr></thead>
               <tbody>
                 {lesions.map((l) => (
                   <tr key={l.lesion} data-testid="diagram-row" data-lesion={l.lesion}>
                     <th scope="row">{l.track ?? '—'}{l.isNew ? ' (new)' : ''}</th>
+                    <td data-testid="diagram-target">{l.target ? 'yes' : 'no'}</td>
                     <td>{l.lesion}</td>
                     <td data-testid="diagram-segment">{l.segment ?? 'outside'}{l.crossing ? <span className="muted"> (crosses: {sharesText(l)})</span> : null}</td>
                     <td className="num">{oneDecimal(l.longestAxialMm)}</td>

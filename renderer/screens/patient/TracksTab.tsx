@@ -1,5 +1,6 @@
 import { useCallback, useState } from 'react';
 import { showsViable, type TrackSummary } from '../../../src/followup/followup';
+import { compareTrackIds } from '../../../src/followup/ids';
 import { MAX_TARGETS_PER_ORGAN } from '../../../src/followup/recist';
 import type { AuditRecord, JsonValue } from '../../../src/model/records';
 import { usePatient } from '../../analysis/PatientContext';
@@ -88,7 +89,7 @@ export function TracksTab() {
       <h3 id="tracks-title">Lesion tracks</h3>
       <p className="chart-note">
         Each row follows one lesion from visit to visit. Select a lesion to correct its track. Targets:{' '}
-        <strong data-testid="target-list">{targets.join(', ') || 'none'}</strong>{' '}
+        <strong data-testid="target-list">{[...targets].sort(compareTrackIds).join(', ') || 'none'}</strong>{' '}
         ({f.targets.source === 'named' ? 'chosen by a reader' : 'chosen automatically: the largest measurable lesions at baseline'}).
         RECIST 1.1 takes at most {MAX_TARGETS_PER_ORGAN} target lesions per organ, and the liver is one organ, so at most {MAX_TARGETS_PER_ORGAN} can be ticked.
         {f.targets.source === 'named' && (
