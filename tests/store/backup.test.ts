@@ -140,7 +140,7 @@ describe('a hostile backup', () => {
     ['a number out of range (stored size)', (i) => { first(i, 'visits').storedBytes = -1; }, /visits record 1 \(v1\): field storedBytes Too small/],
     ['a non-integer dimension', (i) => { (first(i, 'volumes').dims as number[])[0] = 1.5; }, /volumes record 1 \(DEMO-0301\/v1\/lesions\): field dims.0 Invalid input: expected int, received number/],
     ['an unknown schema version', (i) => { i.schemaVersion = 0; }, /has an index whose field schemaVersion Too small/],
-    ['a newer schema version', (i) => { i.schemaVersion = 3; }, /store schema 3, newer/],
+    ['a newer schema version', (i) => { i.schemaVersion = 4; }, /store schema 4, newer/],
     ['an unknown setting', (i) => { i.tables.settings.push({ key: 'theme', value: 'dark' }); }, /\(theme\): field key names setting "theme", which this Falciform does not know/],
     ['a field the store does not have', (i) => { first(i, 'treatments').colour = 'red'; }, /treatments record 1 \(2026-01-20-therapy-start\): field colour Unrecognized key: "colour"/],
     ['an unknown trail action', (i) => { first(i, 'audit').action = 'erase'; }, /audit record 1 \([^)]+\): field action Invalid option/],
