@@ -5,7 +5,7 @@ import type { SegmentMap, SegmentName } from '../segments/segment-map.js';
 import { sameGrid } from '../volume/resample.js';
 import type { Volume } from '../volume/volume.js';
 import type { LesionVoxels } from './components.js';
-import { orthogonalColumns } from './grid.js';
+import { ORTHOGONAL_TOLERANCE, orthogonalColumns } from './grid.js';
 import { nearestVoxelInBall } from './nearest-voxel.js';
 import { PointTree } from './point-tree.js';
 import { BACKGROUND, segmentLookup, segmentName, type SegmentIndex } from './segment-lookup.js';
@@ -268,7 +268,7 @@ function parallelToFrame(affine: Mat4, R: Frame): boolean {
     const len = Math.hypot(affine[c], affine[4 + c], affine[8 + c]);
     let along = 0;
     for (let r = 0; r < 3; r++) {
-      if (Math.abs(R[3 * r] * affine[c] + R[3 * r + 1] * affine[4 + c] + R[3 * r + 2] * affine[8 + c]) > 1e-9 * len) along++;
+      if (Math.abs(R[3 * r] * affine[c] + R[3 * r + 1] * affine[4 + c] + R[3 * r + 2] * affine[8 + c]) > ORTHOGONAL_TOLERANCE * len) along++;
     }
     if (along !== 1) return false;
   }

@@ -250,3 +250,17 @@ describe('margin to a plane border from a sphere, on 0.8 × 0.8 × 5 mm voxels',
     expect(l.marginMm).toBeCloseTo(r.edtMm, 9);
   });
 });
+
+describe('margin on a tilted grid stored in float32', () => {
+  it('is measured by the distance transform, the same as the search', () => {
+    // NIfTI keeps the sform in float32 (nifti1.h: float srow_x[4] …): a tilted grid read back has
+    // axes perpendicular only to about 1e-7, which must still count as perpendicular.
+    const affine = obliqueAffine(spacing, [0.14, 0, 0], [-10, -20, -30]).map(Math.fround);
+    const map = segmentMap(volume(dims, mapData(), affine, 'uint8'));
+    const mask = volume(dims, block(10, 15, 5, 10, 4, 10), affine, 'uint8');
+    const lv = lesionsFromMask(mask).lesions[0];
+    const edt = maskLesionMargin(mask, lv, map, segmentIndexOf('V'), 60, 'edt');
+    expect(edt.marginMm).toBeCloseTo(Math.hypot(14 * 0.7, 9 * 2), 5);
+    expect(maskLesionMargin(mask, lv, map, segmentIndexOf('V'), 60, 'search').marginMm).toBeCloseTo(edt.marginMm as number, 6);
+  });
+});
