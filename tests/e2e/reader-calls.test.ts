@@ -67,6 +67,11 @@ describe('reader\'s calls in the browser', () => {
     // Scenario: the lesion in VIII is inside the 10 mm margin at v2 and across the border at v3.
     expect(await page.getByTestId('alert-margin').allTextContents()).toHaveLength(2);
     await page.screenshot({ path: 'test-results/alerts-border-surface.png', fullPage: true });
+    // The visit view's lesion table says the same of its margin column.
+    await page.goto(`${server.url}#/patient/DEMO-0003/visit/v2`);
+    await page.getByTestId('lesion-table').waitFor({ timeout: 90_000 });
+    expect(await page.locator('[data-testid="lesion-table"] caption').textContent()).toMatch(/border surface of the nearest other segment \(0 when touching\), highlighted when at or within the set margin/);
+    await page.getByTestId('lesion-table').screenshot({ path: 'test-results/lesion-table-margin.png' });
     expect(errors).toEqual([]);
   });
 });
