@@ -59,6 +59,22 @@ describe('reader\'s calls in the browser', () => {
     expect(errors).toEqual([]);
   });
 
+  it('a new lesion called equivocal is followed, not PD, until the call is taken back', async () => {
+    // DEMO-0002 (mRECIST): the 15 mm lesion new in VI at v3 is unequivocal by its size, so v3 is PD; the
+    // reader's equivocal call sets it aside (RECIST 1.1 section 4.3.5: a new lesion must be unequivocal).
+    // The same call on the command line (--new-lesion v3:M2=equivocal) gives PR at v3.
+    await page.goto(`${server.url}#/patient/DEMO-0002`);
+    await page.getByTestId('reader-calls').waitFor({ timeout: 90_000 });
+    const v3 = () => page.evaluate(() => document.querySelector('[data-testid="visit-row"][data-visit="v3"] [data-testid="response"]')?.textContent);
+    expect(await v3()).toBe('PD');
+    await page.getByTestId('new-lesion-v3-M2').selectOption('equivocal');
+    await page.waitForFunction(() => document.querySelector('[data-testid="visit-row"][data-visit="v3"] [data-testid="response"]')?.textContent === 'PR', null, { timeout: 90_000 });
+    await page.getByTestId('reader-calls').screenshot({ path: 'test-results/reader-calls-new-lesion.png' });
+    await page.getByTestId('new-lesion-v3-M2').selectOption('');
+    await page.waitForFunction(() => document.querySelector('[data-testid="visit-row"][data-visit="v3"] [data-testid="response"]')?.textContent === 'PD', null, { timeout: 90_000 });
+    expect(errors).toEqual([]);
+  });
+
   it('the alert list defines the margin to the border surface, and DEMO-0003 alerts as designed', async () => {
     await page.goto(`${server.url}#/patient/DEMO-0003`);
     await page.getByTestId('tab-alerts').click();
