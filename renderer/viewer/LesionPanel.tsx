@@ -33,7 +33,7 @@ export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId
       {lesions && lesions.length === 0 && <p className="side-note">No lesions at this visit.</p>}
       {lesions && lesions.length > 0 && (
         <table className="data-table compact" data-testid="lesion-table">
-          <caption>Diameters and margin in mm; margin is the distance to the nearest other segment{lesions.some((l) => l.marginAlert) ? ', highlighted when below the set margin' : ''}.</caption>
+          <caption>Diameters and margin in mm; margin is the gap from the lesion&apos;s edge to the border surface of the nearest other segment (0 when touching){lesions.some((l) => l.marginAlert) ? ', highlighted when at or within the set margin' : ''}.</caption>
           <thead>
             <tr>
               <th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col" className="num" title="Longest axial diameter, mm">Longest</th>

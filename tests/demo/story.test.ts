@@ -8,7 +8,8 @@ import { describe, expect, it } from 'vitest';
  * The demo scenario as designed (demo-data/scenario.ts), checked through the command line a user
  * would run: `falciform followup demo-data/<patient>/manifest.json --json`. Response rules are
  * RECIST 1.1 (Eisenhauer et al., Eur J Cancer 2009;45:228-247) and mRECIST (Lencioni and Llovet,
- * Semin Liver Dis 2010;30:52-60); the margin rule is the brief's (alert below 10 mm).
+ * Semin Liver Dis 2010;30:52-60); the margin rule is docs/formats.md's (to the border surface,
+ * alert at or within 10 mm).
  */
 interface Followup {
   criteria: string;

@@ -16,8 +16,9 @@ export function AlertsTab() {
     <section aria-labelledby="alerts-title">
       <h3 id="alerts-title">Margin alerts</h3>
       <p className="chart-note">
-        Lesions whose nearest voxel lies less than {f.marginMm} mm (the set margin for this patient) from another segment; 0 mm means the
-        lesion spans two segments. A lesion near a border may commit a resection or ablation plan to the neighbouring segment.
+        Lesions whose edge lies {f.marginMm} mm or less (the set margin for this patient) from the border of another segment. The margin is
+        measured from the lesion&apos;s outer voxel faces to the border surface, the faces of the other segment&apos;s voxels; 0 mm means the
+        lesion touches or spans the border. A lesion near a border may commit a resection or ablation plan to the neighbouring segment.
       </p>
       {rows.length === 0 ? (
         <p className="empty" data-testid="no-alerts">No lesion lies within {f.marginMm} mm of another segment at any visit.</p>

@@ -5,6 +5,7 @@ import { PLANE_APPROXIMATION } from '../../../src/segments/build';
 import { usePatient } from '../../analysis/PatientContext';
 import { RouteLink } from '../../components/RouteLink';
 import { fmtMm, fmtPct } from '../../format';
+import { ReaderCallsPanel } from './ReaderCallsPanel';
 
 
 /** The visit timeline: each visit's inputs, lesions, alerts and response category. */
@@ -63,6 +64,7 @@ export function OverviewTab() {
       <p className="hint" data-testid="computed-response-note">{COMPUTED_RESPONSE}</p>
       {analysis.manifest.visits.some((v) => !v.segments) && <p className="hint" data-testid="plane-approximation">{PLANE_APPROXIMATION}</p>}
       <p data-testid="best-response">Best overall response ({analysis.followup.criteria}): {bestResponseText(analysis.followup.bestResponse)}</p>
+      {analysis.followup.visits.length > 1 && <ReaderCallsPanel />}
       {analysis.followup.departures.length > 0 && <p>Protocol settings: {analysis.followup.departures.join('; ')}</p>}
       {analysis.followup.notes.length > 0 && (
         <ul className="notes">
