@@ -23,4 +23,7 @@ export interface PatientAnalysis {
   followup: FollowupResult;
 }
 
+/** Why a stored visit is left out of the analysis. */
+export const WAITING_FOR_MAP = 'no segment map yet (no map imported, no landmark set placed); left out of the analysis until it has one';
+
 export type AnalysisRequest = { type: 'analyse'; patientId: string };

@@ -15,7 +15,7 @@ import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark } from '../s
 import { getSetting } from '../store/patients';
 import { useStored } from '../store/use-stored';
 import { markFromCaliper, nextMarkId } from '../viewer/caliper';
-import { LandmarkPanel, type LandmarkMode } from '../viewer/LandmarkPanel';
+import { LandmarkPanel, type LandmarkMode, type ProposalState } from '../viewer/LandmarkPanel';
 import { landmarkProblems, landmarkQcNotes, LANDMARK_LABELS, type LandmarkNotes } from '../viewer/landmark-qc';
 import { diameterMarks, lesionOfDiameter } from '../viewer/diameter-marks';
 import { GrowPanel, type GrowKind } from '../viewer/GrowPanel';
@@ -96,6 +96,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const [placing, setPlacing] = useState<LandmarkName | null>(null);
   const [growPick, setGrowPick] = useState<GrowKind | null>(null);
   const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3 } | null>(null);
+  const [proposed, setProposed] = useState<ProposalState | null>(null);
 
   const result = analysis?.visits.find((v) => v.id === visitId) ?? null;
   const record = inputs?.record ?? null;
@@ -220,8 +221,15 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     void edit(async () => { await saveMark(db, patient.id, visitId, { ...m, shortAxisMm: roundTo(shortAxisMm, 1) }, 'update'); return `Short axis of ${id} saved.`; });
   };
 
-  const landmarkMode: LandmarkMode = !record || !record.volumes.includes('segments') ? 'built' : record.volumes.includes('liver') ? 'imported-with-liver' : 'imported';
-  const shownLandmarks = landmarkDraft ?? inputs?.landmarks ?? null;
+  const landmarkMode: LandmarkMode = record && !record.volumes.includes('segments') && !record.volumes.includes('liver') ? 'no-liver'
+    : !record || !record.volumes.includes('segments') ? 'built' : record.volumes.includes('liver') ? 'imported-with-liver' : 'imported';
+  // Landmarks carried from an earlier visit: on screen only (never stored or analysed) until confirmed.
+  const proposal = inputs && !inputs.landmarks && landmarkMode === 'built' ? volumes?.proposal ?? null : null;
+  useEffect(() => {
+    setProposed(proposal ? { proposal, moved: [] } : null);
+    if (proposal) setTool('landmarks');
+  }, [proposal]);
+  const shownLandmarks = landmarkDraft ?? inputs?.landmarks ?? proposed?.proposal.set ?? null;
   const problems = useMemo(() => (shownLandmarks ? landmarkProblems(shownLandmarks) : null), [shownLandmarks]);
   const qc = useMemo(
     () => (shownLandmarks && !problems && inputs ? landmarkQcNotes(shownLandmarks, inputs.otherLandmarks) : null),
@@ -235,12 +243,31 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     return out;
   }, [problems, qc]);
 
+  const confirmProposal = (state: ProposalState) => {
+    const { proposal: from, moved } = state;
+    void edit(async () => {
+      await buildMapFromLandmarks(db, patient.id, visitId, from.set, {
+        proposedFrom: from.fromVisit, alignment: from.method, residualMm: from.residualMm === null ? null : roundTo(from.residualMm, 2),
+        rotationDeg: roundTo(from.rotationDeg, 2), movedByReader: [...moved],
+      });
+      return `Landmarks confirmed (${moved.length} of ${LANDMARK_NAMES.length} moved); the segment map is being built from them.`;
+    }, { volumes: true }).then((ok) => { if (ok) setProposed(null); });
+  };
+
   const moveLandmark = async (name: LandmarkName, p: Vec3) => {
     setPlacing(null);
     setHint(null);
     if (!shownLandmarks) return;
     const set: LandmarkSet = { points: { ...shownLandmarks.points, [name]: p } };
     setLandmarkStatus(null);
+    if (proposed && !inputs?.landmarks) {
+      // A moved proposed point counts as confirmed; once every point is, the set is stored.
+      const moved = proposed.moved.includes(name) ? proposed.moved : [...proposed.moved, name];
+      const next: ProposalState = { proposal: { ...proposed.proposal, set }, moved };
+      setProposed(next);
+      if (moved.length === LANDMARK_NAMES.length && !landmarkProblems(set)) confirmProposal(next);
+      return;
+    }
     if (landmarkProblems(set)) {
       // Kept on screen, not stored: a set the plane rule refuses would stop the patient's analysis.
       setLandmarkDraft(set);
@@ -297,7 +324,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
       {/* One reserved line for progress and edit messages, so the images do not jump when they come and go. */}
       <div className="visit-status">
         <AnalysisStatus state={state} />
-        {analysis && !result && state.status === 'ready' && <p className="notice error" role="alert">Visit {visitId} is not among {patient.id}&apos;s visits.</p>}
+        {analysis && !result && state.status === 'ready' && (record && !record.volumes.includes('segments') && !inputs?.landmarks
+          ? <p className="notice" role="status" data-testid="visit-waiting">Visit {visitId} has no segment map yet, so it is left out of the analysis: {landmarkMode === 'no-liver' ? 'grow the liver from a click, then' : ''} confirm or place its landmarks.</p>
+          : <p className="notice error" role="alert">Visit {visitId} is not among {patient.id}&apos;s visits.</p>)}
         {notice && (
           <p className={`notice ${notice.kind === 'done' ? 'done' : 'problem'}`} role={notice.kind === 'problem' ? 'alert' : 'status'} data-testid="edit-notice">{notice.text}</p>
         )}
@@ -343,6 +372,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               landmarks={shownLandmarks}
               landmarkNotes={notesOnImage}
               onMoveLandmark={(name, p) => void moveLandmark(name, p)}
+              proposed={proposed ? LANDMARK_NAMES.filter((n) => !proposed.moved.includes(n)) : undefined}
               placing={placing}
               onHint={setHint}
               onPick={growPick ? (p) => {
@@ -404,6 +434,8 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             onStartBuilding={startBuilding}
             busy={busy}
             status={landmarkStatus}
+            proposed={proposed}
+            onConfirmProposal={() => { if (proposed) confirmProposal(proposed); }}
           />
           <GrowPanel
             patientId={patient.id}

@@ -41,6 +41,8 @@ interface Props {
   landmarks: LandmarkSet | null;
   landmarkNotes: Partial<Record<LandmarkName, string[]>>;
   onMoveLandmark(name: LandmarkName, p: Vec3): void;
+  /** Landmarks still only proposed (carried from an earlier visit, not yet confirmed): drawn apart. */
+  proposed?: readonly LandmarkName[];
   /** A landmark waiting to be put where the reader clicks next. */
   placing: LandmarkName | null;
   onHint(text: string | null): void;
@@ -410,18 +412,19 @@ export function SliceViewer(props: Props) {
       const held = drag?.kind === 'landmark' && drag.name === name ? drag : null;
       const [x, y] = toScreen(view, held ? held.xMm : d.xMm, held ? held.yMm : d.yMm);
       const notes = props.landmarkNotes[name] ?? [];
+      const proposed = props.proposed?.includes(name) ?? false;
       handles.push(
-        <div key={name} className={`landmark-pin${notes.length ? ' has-notes' : ''}`} style={{ left: x, top: y }}>
+        <div key={name} className={`landmark-pin${notes.length ? ' has-notes' : ''}${proposed ? ' proposed' : ''}`} style={{ left: x, top: y }} data-proposed={proposed || undefined}>
           <button
             type="button"
             className="handle landmark-handle"
             data-testid="landmark-handle"
             data-landmark={name}
-            aria-label={`${LANDMARK_LABELS[name].full}: drag to move`}
-            title={`${LANDMARK_LABELS[name].full} (${p.map(fmt).join(', ')} mm)`}
+            aria-label={`${LANDMARK_LABELS[name].full}${proposed ? ', proposed' : ''}: drag to move`}
+            title={`${LANDMARK_LABELS[name].full}${proposed ? ', proposed from an earlier visit' : ''} (${p.map(fmt).join(', ')} mm)`}
             onPointerDown={(e) => grab(e, { kind: 'landmark', name, xMm: d.xMm, yMm: d.yMm, slice: d.slice })}
           />
-          <span className="landmark-tag">{LANDMARK_LABELS[name].short}</span>
+          <span className="landmark-tag">{LANDMARK_LABELS[name].short}{proposed ? ' · proposed' : ''}</span>
           {notes.length > 0 && (
             <span className="landmark-note" data-testid="landmark-note-on-image" role="note">{notes.join(' ')}</span>
           )}

@@ -2,7 +2,7 @@
 // Loads a stored patient and runs the core's visit analysis and follow-up off the window's thread.
 import type { Override } from '../../src/followup/tracks';
 import { followupOfPatient, loadPatientFrom } from '../../src/patient/load';
-import type { AnalysisRequest, PatientAnalysis } from '../analysis/types';
+import { WAITING_FOR_MAP, type AnalysisRequest, type PatientAnalysis } from '../analysis/types';
 import { storedPatient } from '../analysis/store-source';
 import { appDb } from '../store/db';
 import { patientOverrides } from '../store/track-edits';
@@ -10,7 +10,13 @@ import { serveJob, type Progress } from './job';
 
 async function analyse({ patientId }: AnalysisRequest, progress: Progress): Promise<PatientAnalysis> {
   const db = appDb();
-  const { manifest, files } = await storedPatient(db, patientId);
+  const stored = await storedPatient(db, patientId);
+  const files = stored.files;
+  // A visit with no segment map yet (a scan alone, or a liver mask awaiting its landmarks) has
+  // nothing to place lesions in: it waits outside the analysis until the reader gives it a map.
+  const waiting = stored.manifest.visits.filter((v) => v.segments === undefined && v.landmarks === undefined);
+  const manifest = { ...stored.manifest, visits: stored.manifest.visits.filter((v) => !waiting.includes(v)) };
+  if (manifest.visits.length === 0) throw new Error(`no visit of ${patientId} has a segment map yet; grow the liver and place landmarks in the viewer`);
   const total = manifest.visits.length + 1;
   let done = 0;
   // Visits one at a time, reporting each, so a long series shows progress.
@@ -28,6 +34,7 @@ async function analyse({ patientId }: AnalysisRequest, progress: Progress): Prom
         : { kind: 'new', visit: o.visit, lesion: o.lesion },
   );
   const followup = followupOfPatient({ manifest, manifestFile: patientId, visits }, overrides);
+  for (const v of waiting) followup.warnings.push(`visit ${v.id}: ${WAITING_FOR_MAP}`);
   return {
     manifest,
     visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
