@@ -21,6 +21,8 @@ export interface PatientAnalysis {
   manifest: Manifest;
   visits: VisitResult[];
   followup: FollowupResult;
+  /** Stored visits without a segment map yet, left out of `manifest` and the analysis. */
+  waitingVisits: { id: string; date: string }[];
 }
 
 /** Why a stored visit is left out of the analysis. */

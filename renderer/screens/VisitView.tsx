@@ -304,7 +304,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
         <h2 data-testid="visit-title">Visit {visitId}{visitDate ? <span className="visit-date"> · {visitDate}</span> : null}</h2>
         {record && (
           <span className="visit-facts">
-            Segment map {landmarkMode === 'built' ? <>built from landmarks <span className="approx" data-testid="plane-approximation" title={PLANE_APPROXIMATION}>(flat-plane approximation)</span></> : 'imported'} · lesions from <span data-testid="lesion-source">{lesionSource || 'nothing'}</span>
+            Segment map {landmarkMode === 'no-liver' || (landmarkMode === 'built' && !inputs?.landmarks) ? 'none yet' : landmarkMode === 'built' ? <>built from landmarks <span className="approx" data-testid="plane-approximation" title={PLANE_APPROXIMATION}>(flat-plane approximation)</span></> : 'imported'} · lesions from <span data-testid="lesion-source">{lesionSource || 'nothing'}</span>
           </span>
         )}
         {record?.dicom && (

@@ -39,6 +39,7 @@ async function analyse({ patientId }: AnalysisRequest, progress: Progress): Prom
     manifest,
     visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
     followup,
+    waitingVisits: waiting.map((v) => ({ id: v.id, date: v.date })),
   };
 }
 

@@ -67,17 +67,20 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
   const scan = loaded.volume;
   const values = summariseValues(scan.data, scan.slope, scan.inter);
 
-  progress(1, total, v.segments !== undefined ? 'reading the segment map' : 'building the segment map from the landmarks');
+  progress(1, total, v.segments !== undefined ? 'reading the segment map' : v.landmarks !== undefined ? 'building the segment map from the landmarks' : 'reading the liver mask');
   let segments: VisitVolumes['segments'] = null;
   let segmentProblem: string | null = null;
-  try {
-    const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
-    const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
-    warnings.push(...mapWarnings);
-    const names = new Set(map.scheme.values());
-    segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
-  } catch (e) {
-    segmentProblem = errorText(e);
+  // A scan alone, or a liver awaiting its landmarks, has no map yet: the landmark panel says what to do.
+  if (v.segments !== undefined || v.landmarks !== undefined) {
+    try {
+      const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
+      const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
+      warnings.push(...mapWarnings);
+      const names = new Set(map.scheme.values());
+      segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
+    } catch (e) {
+      segmentProblem = errorText(e);
+    }
   }
   // Only a visit that could switch to landmarks needs it; a built map has read the liver already.
   const liver = v.liver !== undefined && v.landmarks === undefined ? (await files.volume(v.liver)).volume : null;
