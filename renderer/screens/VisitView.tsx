@@ -21,7 +21,8 @@ import { diameterMarks, lesionOfDiameter } from '../viewer/diameter-marks';
 import { GrowPanel, type GrowKind } from '../viewer/GrowPanel';
 import { LesionPanel } from '../viewer/LesionPanel';
 import { SegmentPanel } from '../viewer/SegmentPanel';
-import { displayMmOfWorld, PLANES, sliceLayout, sliceStepTowardsPlus, type Plane, type SliceLayout } from '../viewer/slice';
+import { ComparePane } from '../viewer/ComparePane';
+import { displayMmOfWorld, PLANES, sliceLayout, sliceStepTowardsPlus, worldOfDisplayMm, type Plane, type SliceLayout } from '../viewer/slice';
 import { SliceViewer, type DraftCaliper, type Tool } from '../viewer/SliceViewer';
 import { useVisitInputs } from '../viewer/useVisitInputs';
 import { useVisitVolumes } from '../viewer/useVisitVolumes';
@@ -97,6 +98,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const [growPick, setGrowPick] = useState<GrowKind | null>(null);
   const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3 } | null>(null);
   const [proposed, setProposed] = useState<ProposalState | null>(null);
+  const [compareId, setCompareId] = useState<string | null>(null);
 
   const result = analysis?.visits.find((v) => v.id === visitId) ?? null;
   const record = inputs?.record ?? null;
@@ -147,6 +149,36 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     if (!layout) return;
     setSlices((old) => (old ? { ...old, [prefs.plane]: Math.min(layout.depth - 1, Math.max(0, old[prefs.plane] + n * sliceStepTowardsPlus(layout))) } : old));
   }, [layout, prefs.plane]);
+
+  // Another visit beside this one: both must be in the follow-up, whose alignments relate their worlds.
+  const followed = analysis?.followup.visits ?? [];
+  const currentFollowup = followed.find((v) => v.id === visitId) ?? null;
+  const compare = currentFollowup ? followed.find((v) => v.id === compareId && v.id !== visitId) ?? null : null;
+  const focusMm: Vec3 | null = layout && volumes && slices
+    ? worldOfDisplayMm(layout, volumes.affine, (layout.width * layout.colMm) / 2, (layout.height * layout.rowMm) / 2, slice) : null;
+  const focusOn = useCallback((p: Vec3) => {
+    if (!layout || !volumes) return;
+    setSlices((old) => {
+      if (!old) return old;
+      const now = old[prefs.plane];
+      const want = displayMmOfWorld(layout, volumes.inverse, p).slice;
+      // A finer-sliced visit beside this one still moves this one, a slice at a time.
+      let s = Math.round(want);
+      if (s === now && Math.abs(want - now) > 1e-6) s = now + Math.sign(want - now);
+      return { ...old, [prefs.plane]: Math.min(layout.depth - 1, Math.max(0, s)) };
+    });
+  }, [layout, volumes, prefs.plane]);
+  const tracksByVisit = useMemo(() => {
+    const out = new Map<string, Map<string, string>>();
+    for (const t of analysis?.followup.tracks ?? []) {
+      for (const [v, lesion] of Object.entries(t.lesions)) {
+        if (!out.has(v)) out.set(v, new Map());
+        out.get(v)!.set(lesion, t.id);
+      }
+    }
+    return out;
+  }, [analysis]);
+  const trackIn = (v: string) => (lesionId: string) => tracksByVisit.get(v)?.get(lesionId);
 
   const visitIds = inputs?.visitIds ?? [];
   const at = visitIds.indexOf(visitId);
@@ -317,6 +349,14 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           </span>
         )}
         <span className="visit-nav">
+          <label className="compare-choice">
+            Beside:{' '}
+            <select value={compare?.id ?? ''} onChange={(e) => setCompareId(e.target.value || null)} disabled={!currentFollowup} data-testid="compare-visit"
+              title={currentFollowup ? 'Show another visit beside this one, at the same anatomical place' : 'This visit is not in the analysis yet'}>
+              <option value="">no other visit</option>
+              {followed.filter((v) => v.id !== visitId).map((v) => <option key={v.id} value={v.id}>visit {v.id} · {v.date}</option>)}
+            </select>
+          </label>
           <button type="button" onClick={() => openVisit(previous)} disabled={!previous} data-testid="previous-visit" title="Previous visit ( [ )">‹ {previous ?? 'first visit'}</button>
           <button type="button" onClick={() => openVisit(next)} disabled={!next} data-testid="next-visit" title="Next visit ( ] )">{next ?? 'last visit'} ›</button>
         </span>
@@ -352,6 +392,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             </div>
           )}
           {loading.status === 'failed' && <p className="notice problem" role="alert" data-testid="volumes-error">The images could not be shown: {loading.message}</p>}
+          <div className={compare ? 'compare-panes' : 'single-pane'}>
+          <div className="compare-pane">
+          {compare && <p className="pane-title"><strong>Visit {visitId}</strong> · {visitDate} · this visit</p>}
           {volumes && layout && slices && prefs.window ? (
             <SliceViewer
               volumes={volumes}
@@ -375,6 +418,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               proposed={proposed ? LANDMARK_NAMES.filter((n) => !proposed.moved.includes(n)) : undefined}
               placing={placing}
               onHint={setHint}
+              trackOf={compare ? trackIn(visitId) : undefined}
               onPick={growPick ? (p) => {
                 setGrowSeed({ kind: growPick, p });
                 // The brush stays in hand for the next dab; a grower takes one click.
@@ -384,6 +428,24 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           ) : (
             loading.status !== 'failed' && <div className="slice-placeholder" aria-hidden="true" />
           )}
+          </div>
+          {compare && currentFollowup && focusMm && prefs.window && (
+            <ComparePane
+              patientId={patient.id}
+              other={compare}
+              otherResult={analysis?.visits.find((v) => v.id === compare.id) ?? null}
+              current={currentFollowup}
+              plane={prefs.plane}
+              focusMm={focusMm}
+              onFocus={focusOn}
+              window={prefs.window}
+              onWindow={(w) => setPrefs((p) => ({ ...p, window: w }))}
+              showSegments={prefs.showSegments}
+              opacity={prefs.opacity}
+              trackOf={trackIn(compare.id)}
+            />
+          )}
+          </div>
           {hint && <p className="viewer-hint" role="status" data-testid="viewer-hint">{hint}</p>}
           <p className="keys" data-testid="key-help">
             <kbd>↑</kbd>/<kbd>↓</kbd> or wheel: slice · <kbd>PgUp</kbd>/<kbd>PgDn</kbd>: 5 slices · <kbd>[</kbd>/<kbd>]</kbd>: previous/next visit ·

@@ -48,6 +48,8 @@ interface Props {
   onHint(text: string | null): void;
   /** When given, a click picks a world point (a seed for growing) instead of the tool's action. */
   onPick?(p: Vec3): void;
+  /** The lesion track of a lesion id, shown before the id so two visits side by side label alike. */
+  trackOf?(lesionId: string): string | undefined;
 }
 
 const ORIENTATION: Record<SliceLayout['plane'], { left: string; right: string; top: string; bottom: string }> = {
@@ -172,6 +174,14 @@ export function SliceViewer(props: Props) {
 
     const sx = layout.colMm * view.zoom, sy = layout.rowMm * view.zoom;
     const ids = volumes.lesions?.ids ?? [];
+    // What the labels read, also kept on the box for checking: "T2 · L1" where the lesion is tracked.
+    const shown: string[] = [];
+    const named = (id: string) => {
+      const track = props.trackOf?.(id.split(' ')[0]);
+      const text = track ? `${track} · ${id}` : id;
+      shown.push(text);
+      return text;
+    };
     const label = (text: string, x: number, y: number, bold = false) => {
       g.font = `${bold ? '600 ' : ''}12px system-ui, sans-serif`;
       g.lineWidth = 3;
@@ -191,7 +201,7 @@ export function SliceViewer(props: Props) {
       g.lineWidth = chosen ? 2.5 : 1.25;
       g.strokeStyle = chosen ? '#ffffff' : 'rgba(255,255,255,0.85)';
       g.stroke();
-      label(id, view.panX + o.anchor.col * sx, view.panY + o.anchor.row * sy - 4, chosen);
+      label(named(id), view.panX + o.anchor.col * sx, view.panY + o.anchor.row * sy - 4, chosen);
     }
 
     const line = (p: Vec3, q: Vec3, width: number, dash: number[] = []) => {
@@ -224,9 +234,10 @@ export function SliceViewer(props: Props) {
         g.lineWidth = 1.5; g.strokeStyle = '#ffffff'; g.stroke();
       }
       const tip = screenOf(ends ? ends[1] : m.centreMm);
-      if (tip) label(m.id, tip.x + 6, tip.y - 6, chosen);
+      if (tip) label(named(m.id), tip.x + 6, tip.y - 6, chosen);
     };
     for (const m of props.marks) drawMark(m, m.id === props.selected);
+    if (box.current) box.current.dataset.labels = shown.join('|');
 
     const caliper = drag?.kind === 'caliper' && !drag.short ? { a: drag.from, b: drag.to } : props.draft;
     if (caliper) {
