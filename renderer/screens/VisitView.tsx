@@ -96,7 +96,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const [landmarkStatus, setLandmarkStatus] = useState<string | null>(null);
   const [placing, setPlacing] = useState<LandmarkName | null>(null);
   const [growPick, setGrowPick] = useState<GrowKind | null>(null);
-  const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3 } | null>(null);
+  const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3; path?: Vec3[] } | null>(null);
   const [proposed, setProposed] = useState<ProposalState | null>(null);
   const [compareId, setCompareId] = useState<string | null>(null);
 
@@ -419,6 +419,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               placing={placing}
               onHint={setHint}
               trackOf={compare ? trackIn(visitId) : undefined}
+              onStroke={growPick?.startsWith('brush') ? (path) => setGrowSeed({ kind: growPick, p: path[0], path }) : undefined}
               onPick={growPick ? (p) => {
                 setGrowSeed({ kind: growPick, p });
                 // The brush stays in hand for the next dab; a grower takes one click.
@@ -507,7 +508,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               setGrowPick(k);
               setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).'
                 : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).'
-                  : k ? `Click on any plane to ${k === 'brush-add' ? 'add' : 'erase'} a ball of the brush radius; each click is stored and can be undone (Esc ends).` : null);
+                  : k ? `Click or drag on any plane to ${k === 'brush-add' ? 'add' : 'erase'} balls of the brush radius; each click or stroke is stored as one change and can be undone (Esc ends).` : null);
             }}
             seed={growSeed}
             onAccepted={(text) => void edit(async () => text, { volumes: true })}

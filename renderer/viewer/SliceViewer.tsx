@@ -48,6 +48,8 @@ interface Props {
   onHint(text: string | null): void;
   /** When given, a click picks a world point (a seed for growing) instead of the tool's action. */
   onPick?(p: Vec3): void;
+  /** When given, a drag paints a stroke: its world points, from press to release, go here as one. */
+  onStroke?(pathMm: Vec3[]): void;
   /** The lesion track of a lesion id, shown before the id so two visits side by side label alike. */
   trackOf?(lesionId: string): string | undefined;
 }
@@ -65,7 +67,8 @@ type Drag =
   | { kind: 'window'; x: number; y: number; start: WindowLevel }
   | { kind: 'caliper'; from: Vec3; to: Vec3; short: boolean }
   | { kind: 'landmark'; name: LandmarkName; xMm: number; yMm: number; slice: number }
-  | { kind: 'mark-end'; id: string; end: 0 | 1; xMm: number; yMm: number; slice: number };
+  | { kind: 'mark-end'; id: string; end: 0 | 1; xMm: number; yMm: number; slice: number }
+  | { kind: 'stroke'; points: Vec3[] };
 
 interface Readout {
   world: Vec3;
@@ -237,6 +240,11 @@ export function SliceViewer(props: Props) {
       if (tip) label(named(m.id), tip.x + 6, tip.y - 6, chosen);
     };
     for (const m of props.marks) drawMark(m, m.id === props.selected);
+    if (drag?.kind === 'stroke' && drag.points.length > 1) {
+      g.beginPath();
+      drag.points.forEach((p, n) => { const q = screenOf(p); if (q) { if (n === 0) g.moveTo(q.x, q.y); else g.lineTo(q.x, q.y); } });
+      g.lineWidth = 2; g.strokeStyle = '#ffd54a'; g.setLineDash([]); g.stroke();
+    }
     if (box.current) box.current.dataset.labels = shown.join('|');
 
     const caliper = drag?.kind === 'caliper' && !drag.short ? { a: drag.from, b: drag.to } : props.draft;
@@ -344,6 +352,11 @@ export function SliceViewer(props: Props) {
       if (p) props.onMoveLandmark(props.placing, p);
       return;
     }
+    if (props.onStroke) {
+      const p = worldAt(x, y);
+      if (p) setDrag({ kind: 'stroke', points: [p] });
+      return;
+    }
     if (props.onPick) {
       const p = worldAt(x, y);
       if (p) props.onPick(p);
@@ -376,6 +389,10 @@ export function SliceViewer(props: Props) {
     } else if (drag.kind === 'caliper') {
       const p = worldAt(x, y);
       if (p) setDrag({ ...drag, to: p });
+    } else if (drag.kind === 'stroke') {
+      // Every pointer event is kept; the gaps between them are filled with dabs when painted.
+      const p = worldAt(x, y);
+      if (p) setDrag({ kind: 'stroke', points: [...drag.points, p] });
     } else {
       const [xMm, yMm] = toDisplayMm(view, x, y);
       setDrag({ ...drag, xMm, yMm });
@@ -399,6 +416,8 @@ export function SliceViewer(props: Props) {
       } else if (props.draft) {
         props.onDraft({ ...props.draft, shortMm: shortAxisOfDrag(props.draft.a, props.draft.b, d.from, d.to) });
       }
+    } else if (d.kind === 'stroke') {
+      props.onStroke?.(d.points);
     } else if (d.kind === 'landmark') {
       props.onMoveLandmark(d.name, worldOfDisplayMm(layout, volumes.affine, d.xMm, d.yMm, d.slice));
     } else if (d.kind === 'mark-end') {
@@ -483,7 +502,7 @@ export function SliceViewer(props: Props) {
     <div className="slice-viewer">
       <div
         ref={box}
-        className={`slice-box tool-${props.placing || props.onPick ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
+        className={`slice-box tool-${props.placing || props.onPick || props.onStroke ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
         tabIndex={0}
         aria-label={`${PLANE_LABELS[layout.plane]} image, slice ${slice + 1} of ${layout.depth}. Arrow keys or wheel change the slice.`}
         data-testid="slice-viewer"
