@@ -5,7 +5,7 @@ import {
 } from '../../src/model/records.js';
 import { recordBytes, visitStoredBytes } from '../../src/model/storage-size.js';
 import { roundTo } from '../../src/rounding.js';
-import { checkLandmarks, LANDMARK_NAMES, parseLandmarks, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks.js';
+import { checkLandmarks, LANDMARK_NAMES, OPTIONAL_LANDMARK, parseLandmarks, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks.js';
 import { markJson } from '../viewer/caliper.js';
 import type { FalciformDb } from './db.js';
 import { recordEdit } from './patients.js';
@@ -138,6 +138,8 @@ export async function deleteMark(db: FalciformDb, patientId: string, visitId: st
 function landmarksRecord(visit: VisitRecord, fileName: string, file: Record<string, unknown>, set: LandmarkSet): InputRecord {
   const points: Record<string, number[]> = {};
   for (const name of LANDMARK_NAMES) points[name] = set.points[name].map((x) => roundTo(x, 1));
+  const extra = set.points[OPTIONAL_LANDMARK];
+  if (extra) points[OPTIONAL_LANDMARK] = extra.map((x) => roundTo(x, 1));
   return {
     key: inputKey(visit.patientId, visit.id, 'landmarks'),
     patientId: visit.patientId,
@@ -179,11 +181,14 @@ export async function saveLandmarks(db: FalciformDb, patientId: string, visitId:
 }
 
 /**
- * Switches a visit with an imported segment map and a liver mask to a map built from landmarks:
- * stores the landmark set and removes the imported map (and its scheme), all in one transaction,
- * with trail entries for both. A backup made before keeps the imported map.
+ * Gives a visit with a liver mask and no landmark set a map built from landmarks: stores the set and
+ * removes an imported map (and its scheme) if there is one, all in one transaction, with trail
+ * entries for both; `origin` says where the points came from (a confirmed proposal, say). A backup
+ * made before keeps the imported map.
  */
-export async function buildMapFromLandmarks(db: FalciformDb, patientId: string, visitId: string, set: LandmarkSet): Promise<void> {
+export async function buildMapFromLandmarks(
+  db: FalciformDb, patientId: string, visitId: string, set: LandmarkSet, origin?: { [key: string]: JsonValue },
+): Promise<void> {
   await db.transaction('rw', [db.visits, db.inputs, db.volumes, db.audit], async () => {
     const visit = await visitOf(db, patientId, visitId);
     if (!visit.volumes.includes('liver')) {
@@ -216,7 +221,7 @@ export async function buildMapFromLandmarks(db: FalciformDb, patientId: string, 
     }
     await recordEdit(db, {
       patientId, entity: 'visit', entityId: visitId, field: 'landmarks', action: 'create',
-      oldValue: null, newValue: JSON.parse(after.text) as JsonValue,
+      oldValue: null, newValue: { ...(JSON.parse(after.text) as { [key: string]: JsonValue }), ...(origin ? { origin } : {}) },
     });
   });
 }

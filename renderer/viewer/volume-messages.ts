@@ -1,4 +1,6 @@
+import type { AlignmentMethod } from '../../src/followup/align.js';
 import type { Vec3 } from '../../src/geometry/mat4.js';
+import type { LandmarkSet } from '../../src/segments/landmarks.js';
 import type { VoxelArray } from '../../src/volume/volume.js';
 import type { ValueSummary } from './window-level.js';
 
@@ -23,8 +25,24 @@ export interface VisitVolumes {
   lesions: { labels: Uint8Array | Uint16Array; ids: string[] } | null;
   /** The viable (enhancing) tumour mask on the scan grid, 1 where viable; null when the visit has none. */
   viable: Uint8Array | null;
+  /**
+   * Landmarks proposed for a visit that has a liver mask and no landmark set, from the nearest earlier
+   * visit that has one, through the rigid alignment of the two livers; null when there is no such
+   * visit or the livers could not be aligned. Shown as "proposed" until the reader confirms them.
+   */
+  proposal: LandmarkProposal | null;
   /** World bounding box of the liver mask, when the visit has one. */
   liverBoxMm: { min: Vec3; max: Vec3 } | null;
+  warnings: string[];
+}
+
+export interface LandmarkProposal {
+  fromVisit: string;
+  set: LandmarkSet;
+  /** The alignment (earlier visit → this one) that carried the points over, for the landmark QC. */
+  method: AlignmentMethod;
+  residualMm: number | null;
+  rotationDeg: number;
   warnings: string[];
 }
 

@@ -2,7 +2,12 @@
 // Decodes one visit's volumes for the viewer off the window's thread: the scan, its segment map (imported,
 // or built from liver mask and landmarks with the core's own functions, as the analysis does) and the
 // lesion mask's lesions, all brought onto the scan's grid and handed over without copying.
+import { describeLiver } from '../../src/followup/liver-shape';
 import { transformPoint } from '../../src/geometry/mat4';
+import type { ManifestVisit } from '../../src/manifest/manifest';
+import type { PatientFiles } from '../../src/patient/load';
+import { parseLandmarks } from '../../src/segments/landmarks';
+import { proposeLandmarks } from '../../src/segments/propose';
 import { lesionsFromMask } from '../../src/lesions/components';
 import { visitSegmentMap } from '../../src/patient/visit-map';
 import { resampleLabels } from '../../src/segments/resample';
@@ -11,7 +16,7 @@ import { resampleNearest } from '../../src/volume/resample';
 import { storedPatient } from '../analysis/store-source';
 import { errorText } from '../error-text';
 import { appDb } from '../store/db';
-import type { VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
+import type { LandmarkProposal, VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
 import { serveJob, type Progress } from './job';
 
@@ -38,6 +43,18 @@ function liverBox(liver: Volume): VisitVolumes['liverBoxMm'] {
   return { min, max };
 }
 
+/** The earlier visit's landmarks carried onto this visit's liver (core `proposeLandmarks`). */
+async function propose(earlier: ManifestVisit, liver: Volume, files: PatientFiles, label: string): Promise<LandmarkProposal | null> {
+  const landmarks = parseLandmarks(await files.text(earlier.landmarks!), files.name(earlier.landmarks!));
+  const before = describeLiver((await files.volume(earlier.liver!)).volume);
+  const now = describeLiver(liver);
+  if (!before || !now) return null;
+  const p = proposeLandmarks({ landmarks, liver: before }, { liver: now }, label);
+  if (!p) return null;
+  const a = p.alignment;
+  return { fromVisit: earlier.id, set: p.set, method: a.method, residualMm: a.residualMm, rotationDeg: a.rotationDeg, warnings: a.warnings };
+}
+
 async function load({ patientId, visitId }: VolumesRequest, progress: Progress): Promise<VisitVolumes> {
   const { manifest, files } = await storedPatient(appDb(), patientId);
   const v = manifest.visits.find((x) => x.id === visitId);
@@ -50,20 +67,37 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
   const scan = loaded.volume;
   const values = summariseValues(scan.data, scan.slope, scan.inter);
 
-  progress(1, total, v.segments !== undefined ? 'reading the segment map' : 'building the segment map from the landmarks');
+  progress(1, total, v.segments !== undefined ? 'reading the segment map' : v.landmarks !== undefined ? 'building the segment map from the landmarks' : 'reading the liver mask');
   let segments: VisitVolumes['segments'] = null;
   let segmentProblem: string | null = null;
-  try {
-    const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
-    const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
-    warnings.push(...mapWarnings);
-    const names = new Set(map.scheme.values());
-    segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
-  } catch (e) {
-    segmentProblem = errorText(e);
+  // A scan alone, or a liver awaiting its landmarks, has no map yet: the landmark panel says what to do.
+  if (v.segments !== undefined || v.landmarks !== undefined) {
+    try {
+      const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
+      const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
+      warnings.push(...mapWarnings);
+      const names = new Set(map.scheme.values());
+      segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
+    } catch (e) {
+      segmentProblem = errorText(e);
+    }
   }
   // Only a visit that could switch to landmarks needs it; a built map has read the liver already.
-  const liverBoxMm = v.liver !== undefined && v.landmarks === undefined ? liverBox((await files.volume(v.liver)).volume) : null;
+  const liver = v.liver !== undefined && v.landmarks === undefined ? (await files.volume(v.liver)).volume : null;
+  const liverBoxMm = liver ? liverBox(liver) : null;
+  let proposal: LandmarkProposal | null = null;
+  if (liver && v.segments === undefined) {
+    // The nearest earlier visit with a landmark set (and so a liver mask) lends its points.
+    const earlier = manifest.visits.filter((x) => x.date < v.date && x.landmarks !== undefined && x.liver !== undefined).at(-1);
+    if (earlier) {
+      progress(1, total, `proposing landmarks from visit ${earlier.id}`);
+      try {
+        proposal = await propose(earlier, liver, files, v.id);
+      } catch (e) {
+        warnings.push(`landmarks could not be proposed from visit ${earlier.id}: ${errorText(e)}`);
+      }
+    }
+  }
 
   progress(2, total, 'outlining the lesions');
   let lesions: VisitVolumes['lesions'] = null;
@@ -106,6 +140,7 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
     lesions,
     viable,
     liverBoxMm,
+    proposal,
     warnings,
   };
 }

@@ -1,5 +1,5 @@
 import type { Vec3 } from '../geometry/mat4.js';
-import { applyRigid, invertRigid } from '../geometry/rigid.js';
+import { applyRigid, invertRigid, type RigidTransform } from '../geometry/rigid.js';
 import { badInput } from '../errors.js';
 import { roundTo } from '../rounding.js';
 import type { LandmarkSet } from '../segments/landmarks.js';
@@ -85,6 +85,8 @@ export interface FollowupOptions {
 
 export interface VisitAlignmentSummary {
   method: AlignmentMethod;
+  /** This visit's world mm → the baseline's world mm (identity for the baseline and an unaligned visit). */
+  transform: RigidTransform;
   residualMm: number | null;
   rotationDeg: number;
   warnings: string[];
@@ -402,7 +404,7 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
       readerCalls: { ...calls[k], outsideLiver: calls[k].outsideLiver ?? 'not-assessed' },
       notEvaluable: withStatus('not-evaluable'),
       marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => belowMargin(l, opts.marginMm))).map((t) => t.id),
-      alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
+      alignment: { method: a.method, transform: a.transform, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
       ...(viable[k] ? { viableAxialMm: Object.fromEntries(v.lesions.map((l) => [l.id, viableOf(viable[k]!, l.id)])) } : {}),
     };
   });

@@ -70,11 +70,11 @@ describe('reader\'s calls entered in the app', () => {
   it('keeps per-lesion calls as lists and maps, dropping empty ones', () => {
     let c = withReaderCall({}, { call: 'newLesion', lesion: 'L3', value: 'unequivocal' });
     c = withReaderCall(c, { call: 'tooSmall', lesion: 'L1', on: true });
-    c = withReaderCall(c, { call: 'confirmedGone', track: 'T2', on: true });
-    expect(c).toEqual({ newLesions: { L3: 'unequivocal' }, tooSmall: ['L1'], confirmedGone: ['T2'] });
+    c = withReaderCall(c, { call: 'confirmedGone', track: 'B', on: true });
+    expect(c).toEqual({ newLesions: { L3: 'unequivocal' }, tooSmall: ['L1'], confirmedGone: ['B'] });
     c = withReaderCall(c, { call: 'newLesion', lesion: 'L3', value: null });
     c = withReaderCall(c, { call: 'tooSmall', lesion: 'L1', on: false });
-    c = withReaderCall(c, { call: 'confirmedGone', track: 'T2', on: false });
+    c = withReaderCall(c, { call: 'confirmedGone', track: 'B', on: false });
     expect(c).toEqual({});
   });
 });

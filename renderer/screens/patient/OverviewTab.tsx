@@ -32,7 +32,18 @@ export function OverviewTab() {
           </tr>
         </thead>
         <tbody>
-          {analysis.manifest.visits.map((mv, k) => {
+          {[...analysis.manifest.visits.map((v) => ({ v, waiting: null })), ...analysis.waitingVisits.map((w) => ({ v: null, waiting: w }))]
+            .sort((a, b) => (a.v ?? a.waiting!).date.localeCompare((b.v ?? b.waiting!).date)).map(({ v: mv, waiting }) => {
+            if (!mv) {
+              return (
+                <tr key={waiting!.id} data-testid="visit-row" data-visit={waiting!.id} data-waiting="true">
+                  <td>{waiting!.date}</td>
+                  <th scope="row"><RouteLink to={{ screen: 'visit', patientId: patient.id, visitId: waiting!.id }}>{waiting!.id}</RouteLink></th>
+                  <td colSpan={8} className="muted">no segment map yet: open the visit to grow the liver and confirm its landmarks; left out of the analysis until then</td>
+                </tr>
+              );
+            }
+            const k = analysis.manifest.visits.indexOf(mv);
             const f = byId.get(mv.id);
             const result = analysis.visits.find((v) => v.id === mv.id);
             const lesions = result?.analysis.lesions ?? [];
