@@ -246,8 +246,8 @@ describe('a visit with only a scan, followed to the end', () => {
     expect(Math.abs(expected[2] - middle[2])).toBeGreaterThan(10);
     // The lesion's track labels it in both panes alike.
     const labels = async (n: number) => (await panes.nth(n).getAttribute('data-labels')) ?? '';
-    await expect.poll(() => labels(0)).toMatch(/T\d+ · L1/);
-    const track = /(T\d+) · L1/.exec(await labels(0))![1];
+    await expect.poll(() => labels(0)).toMatch(/\b[A-Z]{1,2} · L1/);
+    const track = /\b([A-Z]{1,2}) · L1/.exec(await labels(0))![1];
     await expect.poll(() => labels(1), { timeout: 30_000 }).toMatch(new RegExp(`${track} · L\\d`));
     // Scrolling either pane moves both.
     const before = [await zOf(0), await zOf(1)];
