@@ -17,7 +17,8 @@ async function analyse({ patientId }: AnalysisRequest, progress: Progress): Prom
   const visits = [];
   for (const v of manifest.visits) {
     progress(done, total, `visit ${v.id} (${v.date})`);
-    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files);
+    // Key images are drawn here, while the scan is in hand, for the board page.
+    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files, { keyImages: true });
     visits.push(one.visits[0]);
     done++;
   }
@@ -30,7 +31,7 @@ async function analyse({ patientId }: AnalysisRequest, progress: Progress): Prom
   const followup = followupOfPatient({ manifest, manifestFile: patientId, visits }, overrides);
   return {
     manifest,
-    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
+    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm, keyImages: v.keyImages })),
     followup,
   };
 }
