@@ -35,6 +35,7 @@ export const SYSTEM_TOOLS = [
   { pkg: 'python3-skimage', why: 'region measure reference values (scikit-image)', module: 'skimage' },
   { pkg: 'python3-pandas', why: 'reading the SAS XPORT cohort tables back (pandas read_sas)', module: 'pandas' },
   { pkg: 'python3-pydicom', why: 'DICOM reference values (pydicom)', module: 'pydicom' },
+  { pkg: 'python3-pil', why: 'reading the board page\'s key images back (Pillow)', module: 'PIL' },
   { pkg: 'dcm2niix', why: 'DICOM-to-NIfTI reference conversions', present: () => onPath('dcm2niix') },
   { pkg: 'libgdcm-tools', why: 'JPEG-LS and JPEG 2000 DICOM test series, lossless and lossy (gdcmconv)', present: () => onPath('gdcmconv') },
   { pkg: 'poppler-utils', why: 'PDF pages, text and fonts (pdfinfo, pdftotext, pdffonts)', present: () => ['pdfinfo', 'pdftotext', 'pdffonts'].every(onPath) },

@@ -20,7 +20,8 @@ export async function analysePatient(db: FalciformDb, patientId: string, progres
   const visits = [];
   for (const v of manifest.visits) {
     progress(done, total, `visit ${v.id} (${v.date})`);
-    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files);
+    // Key images are drawn here, while the scan is in hand, for the board page.
+    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files, { keyImages: true });
     visits.push(one.visits[0]);
     done++;
   }
@@ -34,7 +35,7 @@ export async function analysePatient(db: FalciformDb, patientId: string, progres
   for (const v of waiting) followup.warnings.push(`visit ${v.id}: ${WAITING_FOR_MAP}`);
   return {
     manifest,
-    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm })),
+    visits: visits.map((v) => ({ id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, volumetry: v.volumetry, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm, keyImages: v.keyImages })),
     followup,
     waitingVisits: waiting.map((v) => ({ id: v.id, date: v.date })),
   };

@@ -1,6 +1,7 @@
 import type { FollowupResult } from '../../src/followup/followup.js';
 import type { Manifest } from '../../src/manifest/manifest.js';
 import type { VisitVolumetry } from '../../src/remnant/volumetry.js';
+import type { KeyImage } from '../../src/report/key-image.js';
 import type { VisitAnalysis } from '../../src/visit/analyze.js';
 
 /** One visit's analysis as the app shows it. */
@@ -14,6 +15,8 @@ export interface VisitResult {
   warnings: string[];
   /** The scan's voxel spacing along the axial normal, mm. */
   sliceThicknessMm?: number;
+  /** Each lesion's key image by lesion id, for the board page. */
+  keyImages?: Record<string, KeyImage>;
 }
 
 /** Everything the patient screens show: each visit's analysis and the follow-up across visits. */

@@ -11,6 +11,7 @@ const APP_RULES = `
 .board-print-root { display: none; }
 .board-preview { background: #e4e8e4; border: 1px solid #d9ddd8; border-radius: 4px; padding: 16px; overflow: auto; }
 .board-paper { margin: 0 auto; background: #ffffff; box-shadow: 0 2px 10px rgba(0, 0, 0, 0.18); padding: 9mm; }
+.board-paper + .board-paper { margin-top: 16px; }
 .board-paper.page-A4 { width: 210mm; min-height: 297mm; }
 .board-paper.page-Letter { width: 215.9mm; min-height: 279.4mm; }
 .board-controls { display: flex; flex-wrap: wrap; align-items: center; gap: 0.5rem 1rem; margin: 0 0 0.8rem; }

@@ -10,6 +10,7 @@ import { longestInsideAxial } from '../lesions/inside-diameter.js';
 import { measureMaskLesion } from '../lesions/measures.js';
 import type { Manifest, ManifestVisit } from '../manifest/manifest.js';
 import { visitVolumetry, type VisitVolumetry } from '../remnant/volumetry.js';
+import { renderKeyImage, type KeyImage } from '../report/key-image.js';
 import type { SegmentMap } from '../segments/segment-map.js';
 import { analyzeVisit, type VisitAnalysis } from '../visit/analyze.js';
 import type { LoadedNifti } from '../volume/nifti-read.js';
@@ -36,6 +37,8 @@ export interface LoadedVisit {
   files: Record<string, string>;
   /** The visit's segment map, only when asked for with keepSegmentMaps. */
   segmentMap?: SegmentMap;
+  /** Each lesion's key image by lesion id, only when asked for with keyImages. */
+  keyImages?: Record<string, KeyImage>;
 }
 
 export interface LoadedPatient {
@@ -57,6 +60,8 @@ export interface LoadOptions {
   keepSegmentMaps?: boolean;
   /** Lesions per visit above which a mask is refused (default DEFAULT_MAX_LESIONS). */
   maxLesions?: number;
+  /** Draw each lesion's key image while the scan, map and mask are in hand (thumbnails, for the board page). */
+  keyImages?: boolean;
 }
 
 export async function loadPatientFrom(
@@ -141,7 +146,14 @@ async function loadVisit(
     viable,
     ...(v.readerCalls ? { readerCalls: v.readerCalls } : {}),
   };
-  return { manifest: v, analysis, volumetry, followup, warnings, files, ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}) };
+  const keyImages = opts.keyImages
+    ? Object.fromEntries(analysis.lesions.map((l) => [l.id, renderKeyImage(scan, segments, lesionMask, l)]))
+    : undefined;
+  return {
+    manifest: v, analysis, volumetry, followup, warnings, files,
+    ...(opts.keepSegmentMaps ? { segmentMap: segments } : {}),
+    ...(keyImages ? { keyImages } : {}),
+  };
 }
 
 /**

@@ -1,6 +1,6 @@
 import { bestResponseText } from '../followup/best-response.js';
 import { CAUTION } from '../caution.js';
-import { showsViable } from '../followup/followup.js';
+import { showsViable, type TrackSummary } from '../followup/followup.js';
 import { compareTrackIds } from '../followup/ids.js';
 import type { Criteria } from '../followup/response.js';
 import type { TrackStatus } from '../followup/tracks.js';
@@ -8,22 +8,21 @@ import type { PatientRemnant } from '../remnant/for-patient.js';
 import type { SegmentName } from '../segments/segment-map.js';
 import { VERSION } from '../version.js';
 import { placeLesions, type PlacedLesion } from './diagram-placement.js';
+import { dataUrl, encodePng } from './png.js';
 import { daysBetween, lesionsOfTrack, type ReportInput, type ReportVisit } from './input.js';
 import { pseudonymNote, scrubId, type Pseudonym } from './pseudonym.js';
 
 /**
  * The board summary as plain data: what the one printed page per patient says, before any markup.
- * Built from the same follow-up the screens show; capped so it always fits one page (what is left
- * out is named on the page, and the case-form export holds everything).
+ * Built from the same follow-up the screens show. Every visit, track, alert and warning is kept: how
+ * they are laid out over one or more sheets is `planSheets`' job (board-sheets.ts).
  */
 
-/** Most visits in the response table; the baseline and the latest ones are kept. */
-export const MAX_VISIT_ROWS = 5;
-/** Most visits as columns of the lesion table. */
+/**
+ * Most visits as columns of the lesion table (a width limit: the baseline and the latest ones are
+ * kept, the others are named under the table and shown in the chart).
+ */
 export const MAX_TABLE_VISITS = 5;
-export const MAX_TRACK_ROWS = 6;
-export const MAX_ALERT_LINES = 4;
-export const MAX_WARNING_LINES = 2;
 
 export interface BoardOptions {
   madeAt: Date;
@@ -136,6 +135,29 @@ export interface BoardRemnant {
   estimated: boolean;
 }
 
+export interface BoardKeyImage {
+  visit: string;
+  date: string;
+  lesion: string;
+  longestAxialMm: number | null;
+  /** The image as a PNG data URL (src/report/key-image.ts, src/report/png.ts). */
+  png: string;
+  /** The longest diameter was measured in this slice; else it is drawn dashed, projected onto it. */
+  diameterInSlice: boolean;
+  source: 'mask' | 'mark';
+}
+
+/** One lesion track's key images: at baseline and at the latest visit (null where it was not seen). */
+export interface BoardKeyImagePair {
+  track: string;
+  target: boolean;
+  /** Alerted at the latest visit. */
+  alert: boolean;
+  segment: SegmentName | null;
+  baseline: BoardKeyImage | null;
+  latest: BoardKeyImage | null;
+}
+
 export interface BoardSummary {
   patient: {
     label: string;
@@ -150,22 +172,20 @@ export interface BoardSummary {
   /** Best overall response in one line, what Falciform assesses, protocol settings, and what waits for a reader. */
   responseSummary: { best: string; scope: string; departures: string[]; pending: string[] };
   visits: BoardVisitRow[];
-  visitsLeftOut: string[];
   lesionTable: {
     visits: { id: string; date: string }[];
     rows: BoardTrackRow[];
     /** Cells carry the viable diameter (mRECIST, or viable measures given). */
     viable: boolean;
     visitsLeftOut: string[];
-    tracksLeftOut: string[];
   };
   chart: SizeChart;
   diagram: SegmentDiagram;
   alerts: BoardAlert[];
-  alertsLeftOut: number;
+  /** Each target's and each latest-alerted track's key images; null when the visits were loaded without images. */
+  keyImages: BoardKeyImagePair[] | null;
   remnant: BoardRemnant | null;
   warnings: string[];
-  warningsLeftOut: number;
   caution: string;
   madeAt: string;
   version: string;
@@ -219,15 +239,13 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
       alertTracks: v.marginAlerts,
     };
   });
-  const visitsKept = keepEnds(visitRows, MAX_VISIT_ROWS);
 
   // Lesion table: targets first, then the others, in track order.
   const ordered = [...f.tracks.filter((t) => t.target), ...f.tracks.filter((t) => !t.target)];
-  const tracksKept = ordered.slice(0, MAX_TRACK_ROWS);
   const tableVisits = keepEnds(f.visits, MAX_TABLE_VISITS);
   const alertSet = new Set(f.visits.flatMap((v) => v.marginAlerts.map((t) => `${v.id}\u0000${t}`)));
   const viable = showsViable(f);
-  const rows: BoardTrackRow[] = tracksKept.map((t) => {
+  const rows: BoardTrackRow[] = ordered.map((t) => {
     const seen = f.visits.filter((v) => t.status[v.id] === 'present');
     const lastSeen = seen[seen.length - 1];
     const segmentPath: (SegmentName | null)[] = [];
@@ -337,26 +355,60 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
         ...(v.unconfirmedGone.length ? [`${v.id}: ${v.unconfirmedGone.join(', ')} missing, not confirmed gone (NE)`] : []),
       ]),
     },
-    visits: visitsKept.kept,
-    visitsLeftOut: visitsKept.left.map((v) => v.id),
+    visits: visitRows,
     lesionTable: {
       visits: tableVisits.kept.map((v) => ({ id: v.id, date: v.date })),
       rows,
       viable,
       visitsLeftOut: tableVisits.left.map((v) => v.id),
-      tracksLeftOut: ordered.slice(MAX_TRACK_ROWS).map((t) => t.id),
     },
     chart,
     diagram,
-    alerts: alerts.slice(0, MAX_ALERT_LINES),
-    alertsLeftOut: Math.max(0, alerts.length - MAX_ALERT_LINES),
+    alerts,
+    keyImages: keyImagePairs(input, byId),
     remnant: input.remnant ? boardRemnant(input.remnant) : null,
-    warnings: warnings.slice(0, MAX_WARNING_LINES),
-    warningsLeftOut: Math.max(0, warnings.length - MAX_WARNING_LINES),
+    warnings,
     caution: CAUTION,
     madeAt: madeAtText(opts.madeAt, opts.utcOffsetMinutes),
     version: VERSION,
   };
+}
+
+/** Targets first, then the tracks alerted at the latest visit, each at baseline and at the latest visit. */
+function keyImagePairs(input: ReportInput, byId: ReadonlyMap<string, ReportVisit>): BoardKeyImagePair[] | null {
+  if (!input.visits.some((v) => v.keyImages)) return null;
+  const f = input.followup;
+  const baseline = f.visits[0];
+  const latest = f.visits[f.visits.length - 1];
+  const alerted = new Set(latest.marginAlerts);
+  const image = (t: TrackSummary, visit: { id: string; date: string }): BoardKeyImage | null => {
+    if (t.status[visit.id] !== 'present') return null;
+    const lesion = lesionsOfTrack(t, visit.id)[0];
+    const v = byId.get(visit.id);
+    const img = lesion === undefined ? undefined : v?.keyImages?.[lesion];
+    const l = v?.analysis.lesions.find((x) => x.id === lesion);
+    if (!img || !l) return null;
+    return {
+      visit: visit.id,
+      date: visit.date,
+      lesion,
+      longestAxialMm: l.longestAxialMm,
+      png: dataUrl('image/png', encodePng(img.rgb, img.widthPx, img.heightPx)),
+      diameterInSlice: img.diameterInSlice,
+      source: l.source,
+    };
+  };
+  return f.tracks
+    .filter((t) => t.target || alerted.has(t.id))
+    .sort((a, b) => Number(b.target) - Number(a.target))
+    .map((t) => ({
+      track: t.id,
+      target: t.target,
+      alert: alerted.has(t.id),
+      segment: t.segments[latest.id] ?? null,
+      baseline: image(t, baseline),
+      latest: latest.id === baseline.id ? null : image(t, latest),
+    }));
 }
 
 function boardRemnant(r: PatientRemnant): BoardRemnant {

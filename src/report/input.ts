@@ -2,6 +2,7 @@ import type { FollowupResult, TrackSummary } from '../followup/followup.js';
 import type { Manifest } from '../manifest/manifest.js';
 import type { PatientRemnant } from '../remnant/for-patient.js';
 import type { VisitAnalysis } from '../visit/analyze.js';
+import type { KeyImage } from './key-image.js';
 
 /**
  * What every output is made from: the manifest, each visit's analysis and the follow-up. The command
@@ -15,6 +16,8 @@ export interface ReportVisit {
   warnings: readonly string[];
   /** The scan's voxel spacing along the axial normal, mm (the slice thickness the case form records). */
   sliceThicknessMm?: number;
+  /** Key images by lesion id, where the visit was loaded with them (the board page shows some). */
+  keyImages?: Readonly<Record<string, KeyImage>>;
 }
 
 /** A loaded visit (command line or app) as the outputs see it. */
@@ -23,8 +26,12 @@ export function reportVisit(v: {
   analysis: VisitAnalysis;
   warnings: readonly string[];
   followup: { sliceThicknessMm?: number };
+  keyImages?: Readonly<Record<string, KeyImage>>;
 }): ReportVisit {
-  return { id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm };
+  return {
+    id: v.manifest.id, date: v.manifest.date, analysis: v.analysis, warnings: v.warnings, sliceThicknessMm: v.followup.sliceThicknessMm,
+    ...(v.keyImages ? { keyImages: v.keyImages } : {}),
+  };
 }
 
 export interface ReportInput {

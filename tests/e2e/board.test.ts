@@ -19,7 +19,7 @@ import { launchChromium, watchErrors } from './browser.js';
 
 interface Followup {
   visits: { id: string; date: string; overall: string | null }[];
-  tracks: { id: string; lesions: Record<string, string>; segments: Record<string, string | null>; status: Record<string, string> }[];
+  tracks: { id: string; target: boolean; lesions: Record<string, string>; segments: Record<string, string | null>; status: Record<string, string> }[];
 }
 
 const MANIFEST = 'demo-data/DEMO-0001/manifest.json';
@@ -77,6 +77,14 @@ describe('board summary in the browser', () => {
       }
       expect(row).toContain(Object.values(t.segments).filter(Boolean).pop()!);
     }
+    // Key images: each target at baseline and at the latest visit, drawn by the core in the analysis worker.
+    const targets = followup.tracks.filter((t) => t.target).map((t) => t.id);
+    const keys = sheet().getByTestId('board-key-images');
+    expect(await keys.locator('[data-key-track]').evaluateAll((xs) => xs.map((x) => x.getAttribute('data-key-track')))).toEqual(targets);
+    const imgs = keys.locator('img');
+    expect(await imgs.count()).toBe(2 * targets.length);
+    // Every image decoded, at the size the core draws.
+    expect(await imgs.evaluateAll((xs) => xs.map((x) => (x as HTMLImageElement).naturalWidth))).toEqual(Array(2 * targets.length).fill(112));
     await page.screenshot({ path: 'test-results/board-tab.png', fullPage: true });
   });
 

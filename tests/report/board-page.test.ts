@@ -7,14 +7,17 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { findBrowser, printToPdf } from '../../src/cli/print-pdf.js';
 import { buildBoardSummary } from '../../src/report/board-summary.js';
 import { embeddedFontCss } from '../../src/cli/fonts.js';
-import { boardDocument } from '../../src/report/board-html.js';
-import type { PageSize } from '../../src/report/board-style.js';
+import { boardDocument, boardSheetPlan } from '../../src/report/board-html.js';
+import { SHEET_MM, type PageSize } from '../../src/report/board-style.js';
+import type { BoardSummary } from '../../src/report/board-summary.js';
+import { chromium } from 'playwright-core';
 import { keyedPseudonym } from '../../src/report/pseudonym.js';
 import { syntheticPatient } from './fixtures.js';
-import { pdfInfo } from './pdf.js';
+import { pdfInfo, pdfWords } from './pdf.js';
 
-// The page at its limits (11 visits, 16 lesion tracks, alerts, warnings, a remnant line, a pseudonym note) still prints on one sheet of
-// either paper size; the page count and size are read back with pdfinfo (Debian's poppler-utils).
+// The page at its limits (11 visits, 24 lesion tracks, alerts, warnings, a remnant line, a pseudonym note) prints on exactly the
+// sheets its plan announces, on either paper size, the first sheet saying that more follow; a typical patient takes one sheet.
+// The page count and size are read back with pdfinfo (Debian's poppler-utils), the layout measured in Chromium.
 // Paper sizes: ISO 216 A4 is 210 × 297 mm = 595 × 842 pt; US Letter is 8.5 × 11 in = 612 × 792 pt.
 const dir = mkdtempSync(join(tmpdir(), 'falciform-page-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -42,13 +45,42 @@ function oneFontEnv(): NodeJS.ProcessEnv {
   return { ...process.env, FONTCONFIG_FILE: conf };
 }
 
-/** The crowded page's HTML file: 11 visits, 16 lesion tracks, alerts, warnings, a remnant line, a pseudonym note. */
+/** The crowded patient: 11 visits, 24 lesion tracks, alerts, warnings, a remnant line, a pseudonym note. */
+async function crowdedSummary(): Promise<BoardSummary> {
+  const input = syntheticPatient({ visits: 11, lesions: 24, oddTreatment: true, remnant: true });
+  const pseudonym = await keyedPseudonym('SYN-0001', 'trial key');
+  return buildBoardSummary(input, { madeAt: new Date(Date.UTC(2026, 11, 1, 9, 30)), pseudonym });
+}
+
 async function crowdedPage(page: PageSize): Promise<string> {
   const html = join(dir, `crowded-${page}.html`);
-  const input = syntheticPatient({ visits: 11, lesions: 16, oddTreatment: true, remnant: true });
-  const pseudonym = await keyedPseudonym('SYN-0001', 'trial key');
-  writeFileSync(html, boardDocument(buildBoardSummary(input, { madeAt: new Date(Date.UTC(2026, 11, 1, 9, 30)), pseudonym }), page, embeddedFontCss()));
+  writeFileSync(html, boardDocument(await crowdedSummary(), page, embeddedFontCss()));
   return html;
+}
+
+/** Every sheet's height and every table row's height (mm), and any table wider than its sheet, as Chromium lays the page out. */
+async function measuredLayout(html: string, env: NodeJS.ProcessEnv) {
+  const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--headless', '--no-sandbox', '--disable-gpu'], env: env as Record<string, string> });
+  try {
+    // The sheet's width: the A4 printable width, as the page's @page rule gives it in print.
+    const page = await browser.newPage({ viewport: { width: Math.round((SHEET_MM.width / 25.4) * 96), height: 1200 } });
+    await page.goto(pathToFileURL(html).href);
+    await page.evaluate(() => document.fonts.ready);
+    return await page.evaluate(() => {
+      const mm = (px: number) => (px * 25.4) / 96;
+      const sheets = [...document.querySelectorAll('.board-sheet')];
+      return {
+        sheetsMm: sheets.map((x) => mm(x.getBoundingClientRect().height)),
+        rowsMm: [...document.querySelectorAll('.board-sheet tr')].map((x) => mm(x.getBoundingClientRect().height)),
+        tooWide: [...document.querySelectorAll('.board-sheet table')]
+          .filter((t) => t.getBoundingClientRect().width > t.parentElement!.clientWidth + 1)
+          .map((t) => `${t.parentElement!.getAttribute('data-section')}: ${mm(t.getBoundingClientRect().width).toFixed(1)} mm`),
+        continues: sheets.map((x) => x.querySelector('[data-testid="board-continues"]')?.textContent ?? null),
+      };
+    });
+  } finally {
+    await browser.close();
+  }
 }
 
 /** pdffonts' table: each font's name and whether it is embedded. */
@@ -81,15 +113,48 @@ describe('board summary page fit', () => {
     expect(findBrowser({ FALCIFORM_BROWSER: '/usr/bin/chromium' })).toBe('/usr/bin/chromium');
   });
 
+  it('plans the crowded patient on two sheets and a typical one on one', async () => {
+    const plan = boardSheetPlan(await crowdedSummary());
+    expect(plan).toHaveLength(2);
+    // Every row of every section is on some sheet, once.
+    const rowsOf = (id: string) => plan.flatMap((x) => x.parts.filter((p) => p.section === id).map((p) => p.to - p.from)).reduce((a, b) => a + b, 0);
+    expect(rowsOf('visits')).toBe(11);
+    expect(rowsOf('tracks')).toBe(24);
+    // The lesion table runs over: its rows continue on the second sheet under the repeated header.
+    expect(plan[1].parts[0]).toMatchObject({ section: 'tracks', continued: true });
+    const typical = buildBoardSummary(syntheticPatient({ visits: 4, lesions: 5 }), { madeAt: new Date(Date.UTC(2026, 11, 1, 9, 30)) });
+    expect(boardSheetPlan(typical)).toHaveLength(1);
+  });
+
+  for (const fonts of FONT_SETTINGS) {
+    it(`lays every sheet out at its planned height, rows at their set height (${fonts.name})`, { timeout: 120_000 }, async () => {
+      const plan = boardSheetPlan(await crowdedSummary());
+      const m = await measuredLayout(await crowdedPage('A4'), fonts.env());
+      expect(m.sheetsMm).toHaveLength(plan.length);
+      // A sheet taller than its set height would have spilled: the plan counted less than was drawn.
+      for (const h of m.sheetsMm) expect(h).toBeCloseTo(SHEET_MM.height, 1);
+      expect(m.rowsMm.length).toBeGreaterThan(40);
+      for (const h of m.rowsMm) expect(h).toBeCloseTo(SHEET_MM.row, 2);
+      expect(m.tooWide).toEqual([]);
+      expect(m.continues[0]).toMatch(/^Continued on sheet 2 of 2: /);
+      expect(m.continues[1]).toBeNull();
+    });
+  }
+
   for (const page of ['A4', 'Letter'] as const) {
     for (const fonts of FONT_SETTINGS) {
-      it(`a crowded patient still fits one ${page} page (${fonts.name})`, async () => {
+      it(`a crowded patient prints on exactly the announced sheets of ${page} (${fonts.name})`, { timeout: 180_000 }, async () => {
+        const announced = boardSheetPlan(await crowdedSummary()).length;
         const pdf = join(dir, `crowded-${page}-${fonts.name}.pdf`);
         await printToPdf(browser!, await crowdedPage(page), pdf, undefined, fonts.env());
         const info = pdfInfo(pdf);
         mkdirSync('test-results', { recursive: true });
-        spawnSync('pdftoppm', ['-png', '-r', '60', '-singlefile', pdf, `test-results/board-crowded-${page}-${fonts.name}`]);
-        expect(info.pages).toBe(1);
+        spawnSync('pdftoppm', ['-png', '-r', '60', pdf, `test-results/board-crowded-${page}-${fonts.name}`]);
+        expect(info.pages).toBe(announced);
+        const words = pdfWords(pdf);
+        expect(words).toContain(`Continued on sheet 2 of ${announced}`);
+        expect(words).toContain(`sheet ${announced} of ${announced}`);
+        expect(words).toContain('(continued)');
         expect(info.widthPt).toBeCloseTo(EXPECTED[page][0], -0.5);
         expect(info.heightPt).toBeCloseTo(EXPECTED[page][1], -0.5);
         // Every font in the PDF is embedded and is one the project ships (pdffonts, poppler-utils).
@@ -107,13 +172,15 @@ describe('board summary page fit', () => {
 
   it('the printed page is the same pixel for pixel under both font settings', () => {
     for (const page of ['A4', 'Letter'] as const) {
-      const [a, b] = FONT_SETTINGS.map((fonts) => readFileSync(`test-results/board-crowded-${page}-${fonts.name}.png`));
-      expect(a.length).toBeGreaterThan(10_000);
-      expect(b.equals(a)).toBe(true);
+      for (const sheet of [1, 2]) {
+        const [a, b] = FONT_SETTINGS.map((fonts) => readFileSync(`test-results/board-crowded-${page}-${fonts.name}-${sheet}.png`));
+        expect(a.length).toBeGreaterThan(10_000);
+        expect(b.equals(a)).toBe(true);
+      }
     }
   });
 
-  it('the page on screen is the same pixel for pixel under both font settings', async () => {
+  it('the page on screen is the same pixel for pixel under both font settings', { timeout: 240_000 }, async () => {
     const html = await crowdedPage('A4');
     const shots = FONT_SETTINGS.map((fonts) => screenshot(html, `test-results/board-crowded-screen-${fonts.name}.png`, fonts.env()));
     expect(shots[0].length).toBeGreaterThan(10_000);

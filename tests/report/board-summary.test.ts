@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { boardSheetHtml } from '../../src/report/board-html.js';
-import { buildBoardSummary, madeAtText, MAX_TABLE_VISITS, MAX_TRACK_ROWS, MAX_VISIT_ROWS } from '../../src/report/board-summary.js';
+import { buildBoardSummary, madeAtText, MAX_TABLE_VISITS } from '../../src/report/board-summary.js';
 import { placeLesions } from '../../src/report/diagram-placement.js';
 import { segmentDiagramSvg } from '../../src/report/segment-diagram-svg.js';
 import { sizeChartSvg } from '../../src/report/size-chart-svg.js';
@@ -52,15 +52,15 @@ describe('board summary model', () => {
     expect(s.lesionTable.rows.filter((r) => r.target).map((r) => r.id)).toEqual(f.targets.tracks.slice().sort());
   });
 
-  it('keeps the baseline and the latest visits, and names what it leaves out', () => {
-    const s = buildBoardSummary(syntheticPatient({ visits: 11, lesions: 16 }), { madeAt });
+  it('keeps every visit, track, alert and warning; only the lesion table\'s visit columns are limited, and named', () => {
+    const input = syntheticPatient({ visits: 11, lesions: 16 });
+    const s = buildBoardSummary(input, { madeAt });
     const all = Array.from({ length: 11 }, (_, k) => `v${k + 1}`);
-    const latest = all.slice(all.length - (MAX_VISIT_ROWS - 1));
-    expect(s.visits.map((v) => v.id)).toEqual(['v1', ...latest]);
-    expect(s.visitsLeftOut).toEqual(all.slice(1, all.length - (MAX_VISIT_ROWS - 1)));
-    expect(s.lesionTable.visits).toHaveLength(MAX_TABLE_VISITS);
-    expect(s.lesionTable.rows).toHaveLength(MAX_TRACK_ROWS);
-    expect(s.lesionTable.rows.length + s.lesionTable.tracksLeftOut.length).toBe(16);
+    expect(s.visits.map((v) => v.id)).toEqual(all);
+    expect(s.lesionTable.visits.map((v) => v.id)).toEqual(['v1', ...all.slice(all.length - (MAX_TABLE_VISITS - 1))]);
+    expect(s.lesionTable.visitsLeftOut).toEqual(all.slice(1, all.length - (MAX_TABLE_VISITS - 1)));
+    expect(s.lesionTable.rows).toHaveLength(16);
+    expect(s.alerts).toHaveLength(input.followup.visits.reduce((n, v) => n + v.marginAlerts.length, 0));
     // Targets come first.
     expect(s.lesionTable.rows.slice(0, 2).every((r) => r.target)).toBe(true);
   });

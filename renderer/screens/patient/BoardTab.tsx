@@ -1,7 +1,7 @@
 import { useEffect, useMemo, useState } from 'react';
 import { createPortal, flushSync } from 'react-dom';
 import type { PatientRemnant } from '../../../src/remnant/for-patient';
-import { boardSheetHtml } from '../../../src/report/board-html';
+import { boardSheetsHtml } from '../../../src/report/board-html';
 import { PAGE_SIZES, type PageSize } from '../../../src/report/board-style';
 import { buildBoardSummary } from '../../../src/report/board-summary';
 import { caseFormCsv, caseFormRows } from '../../../src/report/case-form';
@@ -59,7 +59,7 @@ export function BoardTab() {
 
   const pending = pseudonymise && !pseudonym;
   const summary = useMemo(() => (input && !pending ? buildBoardSummary(input, { madeAt, pseudonym }) : null), [input, madeAt, pseudonym, pending]);
-  const html = useMemo(() => (summary ? boardSheetHtml(summary) : ''), [summary]);
+  const sheets = useMemo(() => (summary ? boardSheetsHtml(summary) : []), [summary]);
   if (!analysis || !input || !summary) return <p className="empty">Preparing the board summary…</p>;
   const label = summary.patient.label;
 
@@ -142,10 +142,10 @@ export function BoardTab() {
         </p>
       )}
       <div className="board-preview" data-testid="board-preview">
-        {/* The core's HTML, every value escaped there (src/report/html-escape.ts). */}
-        <div className={`board-paper page-${page}`} dangerouslySetInnerHTML={{ __html: html }} />
+        {/* The core's HTML, every value escaped there (src/report/html-escape.ts); one paper per sheet. */}
+        {sheets.map((sheet, k) => <div key={k} className={`board-paper page-${page}`} dangerouslySetInnerHTML={{ __html: sheet }} />)}
       </div>
-      {createPortal(<div className="board-print-root" dangerouslySetInnerHTML={{ __html: html }} />, document.body)}
+      {createPortal(<div className="board-print-root" dangerouslySetInnerHTML={{ __html: sheets.join('\n') }} />, document.body)}
     </section>
   );
 }

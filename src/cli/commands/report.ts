@@ -66,7 +66,7 @@ export const report: Command = {
     // One visit at a time: analyse it, write its segment map, keep only the analysis.
     const visits: LoadedVisit[] = [];
     for (const mv of manifest.visits) {
-      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id, { maxLesions });
+      const { visit, segmentMap } = await loadVisitWithMap(manifest, manifestFile, source, mv.id, { maxLesions, keyImages: true });
       visits.push(visit);
       await put(segmentMapFileName(mv.id), gzipSync(segmentMapNifti(segmentMap, mv.id, manifest.patient.demo === true)));
       const scheme = customSchemeJson(segmentMap.scheme);
