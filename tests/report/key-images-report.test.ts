@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DIAMETER_RGB, KEY_IMAGE_PX, OUTLINE_RGB } from '../../src/report/key-image.js';
 import { pdfInfo, pdfWords } from './pdf.js';
 
-// `falciform report` on the demo patient with a border alert (DEMO-0003: target T1 reaches into the next
+// `falciform report` on the demo patient with a border alert (DEMO-0003: target A reaches into the next
 // segment): the board page shows the key images of both targets at baseline and at the latest visit,
 // on one sheet. Which tracks, lesions and sizes are expected comes from `falciform followup --json`;
 // each image is read back by Pillow (python3-pil), and the PDF's images are listed by pdfimages
@@ -40,11 +40,11 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 describe('key images on the board page of a patient with a border alert', () => {
   it('shows each target and the alerted track at baseline and at the latest visit', () => {
     const [baseline, latest] = [followup.visits[0], followup.visits[followup.visits.length - 1]];
-    expect(latest.marginAlerts).toContain('T1');
+    expect(latest.marginAlerts).toContain('A');
     const shown = followup.tracks.filter((t) => t.target || latest.marginAlerts.includes(t.id));
-    expect(shown.map((t) => t.id)).toEqual(['T1', 'T2']);
+    expect(shown.map((t) => t.id)).toEqual(['A', 'B']);
     const tiles = [...html.matchAll(/<div class="b-key" data-key-track="([^"]+)">(.*?)<\/div><\/div>/g)];
-    expect(tiles.map((m) => m[1])).toEqual(['T1', 'T2']);
+    expect(tiles.map((m) => m[1])).toEqual(['A', 'B']);
     for (const [k, t] of shown.entries()) {
       const tile = tiles[k][2];
       expect(tile).toContain(latest.marginAlerts.includes(t.id) ? 'target, margin alert' : 'target');
