@@ -4,7 +4,7 @@ import { basename, dirname, join } from 'node:path';
 import { createGunzip, gzipSync } from 'node:zlib';
 import { badFile, isFalciformError } from '../errors.js';
 import type { Volume } from '../volume/volume.js';
-import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti } from '../volume/nifti-read.js';
+import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti, type NiftiInfo } from '../volume/nifti-read.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../volume/nifti-header.js';
 import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
 import { checkOutputFile, openRegularFile } from './regular-file.js';
@@ -119,7 +119,7 @@ function pairImageNames(headerPath: string): string[] {
 }
 
 /** Loads the first 3-D volume of a .nii, .nii.gz or .hdr/.img pair (given either file of the pair). */
-export async function loadVolume(path: string, opts: { maxBytes?: number } = {}): Promise<LoadedNifti> {
+export async function loadVolume(path: string, opts: { maxBytes?: number; onHeader?: (info: NiftiInfo) => void } = {}): Promise<LoadedNifti> {
   const budget = opts.maxBytes ?? DEFAULT_MAX_BYTES;
   const givenImage = /\.img(\.gz)?$/i.test(path);
   const headerPath = givenImage ? path.replace(/\.img(\.gz)?$/i, '.hdr') : path;
@@ -143,7 +143,7 @@ export async function loadVolume(path: string, opts: { maxBytes?: number } = {})
     }
     if (!imageBytes) throw badFile(pairImageNames(headerPath)[0], 'cannot be read: the .img data file of this .hdr/.img pair is missing');
   }
-  return readNifti(bytes, headerPath, { inflate: nodeInflate, maxBytes: budget, imageBytes, imageFile });
+  return readNifti(bytes, headerPath, { inflate: nodeInflate, maxBytes: budget, imageBytes, imageFile, onHeader: opts.onHeader });
 }
 
 /**

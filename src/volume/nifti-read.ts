@@ -1,5 +1,6 @@
 import { badFile, tooLarge } from '../errors.js';
-import { makeVolume, type Volume } from './volume.js';
+import { columnNorms } from '../geometry/mat4.js';
+import { makeVolume, type Volume, type VolumeGrid } from './volume.js';
 import { bytesPerVoxel, PLATFORM_LITTLE_ENDIAN, swapBytesInPlace, viewVoxels } from './nifti-datatype.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader, type NiftiInfo } from './nifti-header.js';
 
@@ -27,6 +28,8 @@ export interface ReadNiftiOptions {
   imageBytes?: Uint8Array;
   /** Name of that .img file, for messages. */
   imageFile?: string;
+  /** Told the header's facts once they are read and checked, before the voxels are inflated. */
+  onHeader?: (info: NiftiInfo) => void;
 }
 
 /** 2 GiB of voxel data: a 512×512×2000 int16 CT fits, a lying header does not get far. */
@@ -58,6 +61,7 @@ export async function readNifti(bytes: Uint8Array, file: string, opts: ReadNifti
   const header = isGzip(bytes) ? await inflateOrFail(opts.inflate, bytes, HEADER_BYTES_NEEDED, file) : bytes;
   const { info, warnings } = parseNiftiHeader(header, file);
   checkBudget(info, file, maxBytes);
+  opts.onHeader?.(info);
 
   let source = bytes;
   let dataFile = file;
@@ -83,9 +87,14 @@ export async function readNifti(bytes: Uint8Array, file: string, opts: ReadNifti
   }
 
   const voxels = voxelsOf(data, info);
-  const [nx, ny = 1, nz = 1] = info.dims;
-  const volume = makeVolume([nx, ny, nz], voxels, info.affine, info.datatype, info.slope, info.inter);
+  const volume = makeVolume(gridOfHeader(info).dims, voxels, info.affine, info.datatype, info.slope, info.inter);
   return { info, volume, warnings };
+}
+
+/** The grid of the first volume a header describes (that of readNifti's volume). */
+export function gridOfHeader(info: NiftiInfo): VolumeGrid {
+  const [nx, ny = 1, nz = 1] = info.dims;
+  return { dims: [nx, ny, nz], affine: info.affine, spacingMm: columnNorms(info.affine) };
 }
 
 /** Refuses, before anything is allocated, a first volume larger than the memory budget. */
