@@ -1,8 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { rename, unlink, writeFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
-import type { Readable } from 'node:stream';
-import { createGunzip, gzipSync } from 'node:zlib';
+import { createGunzip, gzipSync, type Gunzip } from 'node:zlib';
 import { badFile, isFalciformError } from '../errors.js';
 import type { Volume } from '../volume/volume.js';
 import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti, type NiftiInfo } from '../volume/nifti-read.js';
@@ -11,7 +10,7 @@ import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
 import { checkOutputFile, openRegularFile } from './regular-file.js';
 
 /** Compressed bytes are read from disk in pieces of at most this size while they inflate. */
-const READ_PIECE = 8 * 1024 ** 2;
+const READ_PIECE = 4 * 1024 ** 2;
 
 /**
  * Gzip data still on disk: the file, and where in it the bytes not yet handed over begin.
@@ -32,11 +31,9 @@ function inflateInto(gz: Uint8Array, maxOutputBytes: number, rest?: RestOnDisk, 
     let out: Uint8Array | undefined;
     let n = 0;
     let settled = false;
-    let reading: Readable | undefined;
     const finish = (err?: Error) => {
       if (settled) return;
       settled = true;
-      reading?.destroy();
       if (err) reject(err);
       else resolve(out ? out.subarray(0, n) : new Uint8Array(0));
     };
@@ -69,16 +66,43 @@ function inflateInto(gz: Uint8Array, maxOutputBytes: number, rest?: RestOnDisk, 
     z.write(gz);
     // A header read needs a few hundred bytes; the voxels need big pieces so each costs little.
     const piece = Math.min(READ_PIECE, Math.max(64 * 1024, maxOutputBytes));
-    openRegularFile(rest.path).then((fh) => {
-      if (settled) {
-        void fh.close();
-        return;
-      }
-      reading = fh.createReadStream({ start: rest.from, highWaterMark: piece });
-      reading.on('error', (e) => finish(e));
-      reading.pipe(z);
-    }, (e: unknown) => finish(e instanceof Error ? e : new Error(String(e))));
+    feed(z, rest, piece, () => settled).catch((e: unknown) => finish(e instanceof Error ? e : new Error(String(e))));
   });
+}
+
+/**
+ * Writes the rest of a file into the inflater piece by piece: the next piece is read while zlib
+ * inflates this one, so two pieces' memory is all the reading holds. Stops when the inflater has what it needs.
+ */
+async function feed(z: Gunzip, rest: RestOnDisk, piece: number, stopped: () => boolean): Promise<void> {
+  const fh = await openRegularFile(rest.path);
+  // Two buffers in turn: one is read into while zlib inflates the other (its write has called back
+  // by the time it is read into again), so no piece is left for the garbage collector.
+  const buffers = [Buffer.allocUnsafe(piece), Buffer.allocUnsafe(piece)];
+  let turn = 0;
+  const read = async (at: number) => {
+    const buf = buffers[turn];
+    turn ^= 1;
+    const { bytesRead } = await fh.read(buf, 0, piece, at);
+    return buf.subarray(0, bytesRead);
+  };
+  let next: Promise<Buffer> | undefined;
+  try {
+    let at = rest.from;
+    next = read(at);
+    for (;;) {
+      const buf = await next;
+      next = undefined;
+      if (buf.length === 0 || stopped()) break;
+      at += buf.length;
+      next = read(at);
+      await new Promise<void>((resolve, reject) => z.write(buf, (e) => (e ? reject(e) : resolve())));
+    }
+    if (!stopped()) z.end();
+  } finally {
+    await next?.catch(() => undefined);
+    await fh.close().catch(() => undefined);
+  }
 }
 
 /** node:zlib inflater for readNifti of bytes held in memory (see inflateInto). */
