@@ -1,23 +1,33 @@
 import { randomBytes } from 'node:crypto';
 import { rename, unlink, writeFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
-import { createGunzip, gzipSync } from 'node:zlib';
+import { createGunzip, gzipSync, type Gunzip } from 'node:zlib';
 import { badFile, isFalciformError } from '../errors.js';
 import type { Volume } from '../volume/volume.js';
-import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti } from '../volume/nifti-read.js';
+import { checkBudget, DEFAULT_MAX_BYTES, inflateCapacity, isGzip, readNifti, type Inflate, type LoadedNifti, type NiftiInfo } from '../volume/nifti-read.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../volume/nifti-header.js';
 import { encodeNifti, type WriteDatatype } from '../volume/nifti-write.js';
 import { checkOutputFile, openRegularFile } from './regular-file.js';
 
+/** Compressed bytes are read from disk in pieces of at most this size while they inflate. */
+const READ_PIECE = 4 * 1024 ** 2;
+
 /**
- * node:zlib inflater for readNifti, in one pass on libuv's thread pool: the output buffer is sized to
- * the cap, so zlib inflates straight into it in a single call (no chunks to gather, no copy) and stops
- * when it is full. A gzip bomb therefore never costs more than what the header justified, and several
- * files inflate at once on the pool while the main thread waits.
+ * Gzip data still on disk: the file, and where in it the bytes not yet handed over begin.
  */
-export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
-  new Promise((resolve, reject) => {
-    const cap = inflateCapacity(gz, maxOutputBytes);
+interface RestOnDisk { path: string; from: number }
+
+/**
+ * node:zlib inflater for readNifti, on libuv's thread pool: the output buffer is sized to the cap, so
+ * zlib inflates straight into it piece after piece (no chunks to gather, no copy) and stops when it
+ * is full. A gzip bomb therefore never costs more than what the header justified, and several files
+ * inflate at once on the pool while the main thread waits. The input is `gz`, then, for a file given
+ * in part, the rest of the file read from disk in pieces, so a large compressed file is never held
+ * whole; `gzipSize` is then the whole file's size (for the cap).
+ */
+function inflateInto(gz: Uint8Array, maxOutputBytes: number, rest?: RestOnDisk, gzipSize = gz.length): Promise<Uint8Array> {
+  return new Promise((resolve, reject) => {
+    const cap = inflateCapacity(gzipSize, maxOutputBytes);
     let out: Uint8Array | undefined;
     let n = 0;
     let settled = false;
@@ -27,16 +37,17 @@ export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
       if (err) reject(err);
       else resolve(out ? out.subarray(0, n) : new Uint8Array(0));
     };
-    // zlib's minimum output chunk is 64 bytes.
+    // zlib's minimum output chunk is 64 bytes. It writes each piece's output just after the last in
+    // its own buffer of chunkSize, handing out views of it.
     const z = createGunzip({ chunkSize: Math.max(64, cap) });
     z.on('data', (chunk: Buffer) => {
       if (settled) return;
       const take = Math.min(chunk.length, cap - n);
-      if (n === 0 && take === cap && chunk.byteOffset === 0 && chunk.buffer.byteLength === cap) {
-        // The usual case: zlib filled its own buffer of exactly the cap; keep it.
+      if (n === 0 && chunk.byteOffset === 0 && chunk.buffer.byteLength === cap) {
+        // The usual case: zlib's own buffer of exactly the cap; keep it and let zlib fill it.
         out = new Uint8Array(chunk.buffer, 0, cap);
-      } else {
-        // Short, multi-member or small (pooled) output: gather into a buffer of the cap.
+      } else if (!(out && chunk.buffer === out.buffer && chunk.byteOffset === n)) {
+        // Small (pooled) or multi-member output: gather into a buffer of the cap.
         out ??= new Uint8Array(cap);
         out.set(chunk.subarray(0, take), n);
       }
@@ -48,8 +59,54 @@ export const nodeInflate: Inflate = (gz, maxOutputBytes) =>
     });
     z.on('end', () => finish());
     z.on('error', (e) => finish(e));
-    z.end(gz);
+    if (!rest) {
+      z.end(gz);
+      return;
+    }
+    z.write(gz);
+    // A header read needs a few hundred bytes; the voxels need big pieces so each costs little.
+    const piece = Math.min(READ_PIECE, Math.max(64 * 1024, maxOutputBytes));
+    feed(z, rest, piece, () => settled).catch((e: unknown) => finish(e instanceof Error ? e : new Error(String(e))));
   });
+}
+
+/**
+ * Writes the rest of a file into the inflater piece by piece: the next piece is read while zlib
+ * inflates this one, so two pieces' memory is all the reading holds. Stops when the inflater has what it needs.
+ */
+async function feed(z: Gunzip, rest: RestOnDisk, piece: number, stopped: () => boolean): Promise<void> {
+  const fh = await openRegularFile(rest.path);
+  // Two buffers in turn: one is read into while zlib inflates the other (its write has called back
+  // by the time it is read into again), so no piece is left for the garbage collector.
+  const buffers = [Buffer.allocUnsafe(piece), Buffer.allocUnsafe(piece)];
+  let turn = 0;
+  const read = async (at: number) => {
+    const buf = buffers[turn];
+    turn ^= 1;
+    const { bytesRead } = await fh.read(buf, 0, piece, at);
+    return buf.subarray(0, bytesRead);
+  };
+  let next: Promise<Buffer> | undefined;
+  try {
+    let at = rest.from;
+    next = read(at);
+    for (;;) {
+      const buf = await next;
+      next = undefined;
+      if (buf.length === 0 || stopped()) break;
+      at += buf.length;
+      next = read(at);
+      await new Promise<void>((resolve, reject) => z.write(buf, (e) => (e ? reject(e) : resolve())));
+    }
+    if (!stopped()) z.end();
+  } finally {
+    await next?.catch(() => undefined);
+    await fh.close().catch(() => undefined);
+  }
+}
+
+/** node:zlib inflater for readNifti of bytes held in memory (see inflateInto). */
+export const nodeInflate: Inflate = (gz, maxOutputBytes) => inflateInto(gz, maxOutputBytes);
 
 function cannotRead(path: string, e: unknown) {
   if (isFalciformError(e)) return e;
@@ -88,25 +145,51 @@ async function readPrefix(path: string, limit: number): Promise<Uint8Array> {
   }
 }
 
+/** What readNifti is handed of an image file: its bytes, or for a large gzip file its first bytes and size. */
+interface ImageStart { bytes: Uint8Array; gzipSize?: number }
+
 /**
  * Reads what readNifti needs of an image file. An uncompressed single file is read only up to the end
  * of its first volume, after its header passed the budget check, so a 4-D series or a lying header
- * does not pull the whole file into memory. A gzipped file is read whole (that is its compressed
- * size) and inflated only as far as needed.
+ * does not pull the whole file into memory. A gzipped file of up to READ_PIECE is read whole; a
+ * larger one only its first bytes, the inflater reading the rest from disk as far as needed.
  */
-async function readImageFile(path: string, budget: number): Promise<Uint8Array> {
+async function readImageFile(path: string, budget: number): Promise<ImageStart> {
   const head = await readPrefix(path, HEADER_BYTES_NEEDED);
-  if (isGzip(head)) return readPrefix(path, Infinity);
+  if (isGzip(head)) {
+    const size = await fileSize(path);
+    return size > READ_PIECE ? { bytes: head, gzipSize: size } : { bytes: await readPrefix(path, Infinity) };
+  }
   const { info } = parseNiftiHeader(head, path);
-  if (info.pair) return head;
+  if (info.pair) return { bytes: head };
   checkBudget(info, path, budget);
-  return readPrefix(path, info.voxOffset + info.volumeBytes);
+  return { bytes: await readPrefix(path, info.voxOffset + info.volumeBytes) };
+}
+
+async function fileSize(path: string): Promise<number> {
+  let fh;
+  try {
+    fh = await openRegularFile(path);
+    return (await fh.stat()).size;
+  } catch (e) {
+    throw cannotRead(path, e);
+  } finally {
+    await fh?.close().catch(() => undefined);
+  }
+}
+
+/** The inflater for what readImageFile gave: reading on from disk when it gave only the start. */
+function inflaterFor(path: string, start: ImageStart): Inflate {
+  const { gzipSize } = start;
+  if (gzipSize === undefined) return nodeInflate;
+  return (gz, max) => inflateInto(gz, max, { path, from: gz.length }, gzipSize);
 }
 
 /** The header's facts when they can be read, else undefined (readNifti then reports the problem). */
-async function tryHeader(bytes: Uint8Array, path: string) {
+async function tryHeader(start: ImageStart, path: string) {
+  const { bytes } = start;
   try {
-    const head = isGzip(bytes) ? await nodeInflate(bytes, HEADER_BYTES_NEEDED) : bytes;
+    const head = isGzip(bytes) ? await inflaterFor(path, start)(bytes, HEADER_BYTES_NEEDED) : bytes;
     return parseNiftiHeader(head, path).info;
   } catch {
     return undefined;
@@ -119,12 +202,14 @@ function pairImageNames(headerPath: string): string[] {
 }
 
 /** Loads the first 3-D volume of a .nii, .nii.gz or .hdr/.img pair (given either file of the pair). */
-export async function loadVolume(path: string, opts: { maxBytes?: number } = {}): Promise<LoadedNifti> {
+export async function loadVolume(path: string, opts: { maxBytes?: number; onHeader?: (info: NiftiInfo) => void } = {}): Promise<LoadedNifti> {
   const budget = opts.maxBytes ?? DEFAULT_MAX_BYTES;
   const givenImage = /\.img(\.gz)?$/i.test(path);
   const headerPath = givenImage ? path.replace(/\.img(\.gz)?$/i, '.hdr') : path;
-  const bytes = await readImageFile(headerPath, budget);
-  const info = await tryHeader(bytes, headerPath);
+  let start = await readImageFile(headerPath, budget);
+  const info = await tryHeader(start, headerPath);
+  // A pair's header is a few hundred bytes; it is read whole.
+  if (info?.pair && start.gzipSize !== undefined) start = { bytes: await readPrefix(headerPath, Infinity) };
   let imageBytes: Uint8Array | undefined;
   let imageFile: string | undefined;
   if (info?.pair) {
@@ -143,7 +228,9 @@ export async function loadVolume(path: string, opts: { maxBytes?: number } = {})
     }
     if (!imageBytes) throw badFile(pairImageNames(headerPath)[0], 'cannot be read: the .img data file of this .hdr/.img pair is missing');
   }
-  return readNifti(bytes, headerPath, { inflate: nodeInflate, maxBytes: budget, imageBytes, imageFile });
+  return readNifti(start.bytes, headerPath, {
+    inflate: inflaterFor(headerPath, start), gzipSize: start.gzipSize, maxBytes: budget, imageBytes, imageFile, onHeader: opts.onHeader,
+  });
 }
 
 /**

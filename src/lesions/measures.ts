@@ -1,6 +1,6 @@
 import { transformPoint, type Mat4, type Vec3 } from '../geometry/mat4.js';
 import { gridToGrid, sameGrid } from '../volume/resample.js';
-import { axialAxis, voxelVolumeMl, type Volume } from '../volume/volume.js';
+import { axialAxis, voxelVolumeMl, type Volume, type VolumeGrid } from '../volume/volume.js';
 import type { LesionVoxels } from './components.js';
 import type { Lesion } from './lesion.js';
 
@@ -280,8 +280,16 @@ function max3dDiameter(mask: Volume, lesion: LesionVoxels, coords: Int32Array): 
   return Math.sqrt(best);
 }
 
+/**
+ * The mean scan value of measureMaskLesion on its own, for a scan that arrives after the other
+ * measures were taken.
+ */
+export function maskLesionMeanValue(mask: VolumeGrid, lesion: LesionVoxels, scan: Volume): number | null {
+  return meanScanValue(mask, lesion.voxels, voxelCoords(mask.dims, lesion.voxels), scan);
+}
+
 /** Mean scaled scan value over the lesion's voxels that fall inside the scan; null when none do. */
-function meanScanValue(mask: Volume, voxels: Uint32Array, coords: Int32Array, scan: Volume): number | null {
+function meanScanValue(mask: VolumeGrid, voxels: Uint32Array, coords: Int32Array, scan: Volume): number | null {
   const data = scan.data;
   let sum = 0;
   let inside = 0;

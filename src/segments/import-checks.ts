@@ -95,7 +95,7 @@ export const PLAUSIBLE_SPACING_MM = [0.05, 20] as const;
 export const PLAUSIBLE_LIVER_ML = 6000;
 
 /** Voxel sizes must be finite and above zero; outside the plausible range they are warned about. */
-export function checkSpacing(volume: Volume, file: string): string[] {
+export function checkSpacing(volume: Pick<Volume, 'spacingMm'>, file: string): string[] {
   const s = volume.spacingMm;
   if (!s.every((x) => Number.isFinite(x) && x > 0)) {
     throw badFile(file, `has voxel sizes ${s.map(String).join(' × ')} mm; each must be a finite length above 0`);
@@ -117,6 +117,6 @@ export function checkLiverVolume(volumeMl: number, file: string): string[] {
 }
 
 /** A volume's grid for the overlap and point checks. */
-export function gridOf(volume: Volume, file: string): GridInfo {
+export function gridOf(volume: Pick<Volume, 'dims' | 'affine'>, file: string): GridInfo {
   return { file, dims: volume.dims, affine: volume.affine };
 }

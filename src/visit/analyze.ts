@@ -1,16 +1,16 @@
 import { badInput } from '../errors.js';
 import type { Vec3 } from '../geometry/mat4.js';
-import { lesionsFromMask } from '../lesions/components.js';
+import { lesionsFromMask, type LesionVoxels } from '../lesions/components.js';
 import { checkLiverVolume, checkOverlap, checkSpacing, gridOf } from '../segments/import-checks.js';
 import type { Lesion } from '../lesions/lesion.js';
 import { isMarginAlert, markMargin, maskLesionMargin, type MarginResult } from '../lesions/margin.js';
 import { lesionFromMark, type Mark } from '../lesions/marks.js';
-import { measureMaskLesion } from '../lesions/measures.js';
+import { maskLesionMeanValue, measureMaskLesion } from '../lesions/measures.js';
 import { placeMaskLesion, placePoint, type SegmentFractions } from '../lesions/placement.js';
 import { BACKGROUND, segmentIndexOf } from '../lesions/segment-lookup.js';
 import type { SegmentMap, SegmentName } from '../segments/segment-map.js';
 import { segmentVolumes } from '../segments/volumes.js';
-import type { Volume } from '../volume/volume.js';
+import type { Volume, VolumeGrid } from '../volume/volume.js';
 
 /** The set margin when none is given: 10 mm, a common surgical rule of thumb (brief). */
 export const DEFAULT_MARGIN_MM = 10;
@@ -63,12 +63,29 @@ export interface VisitAnalysis {
   warnings: string[];
 }
 
+/** A visit analysed from its label volumes, its mask lesions' mean scan values still to come. */
+export interface LabelAnalysis {
+  analysis: VisitAnalysis;
+  /** The lesion mask's grid (not its voxels, which the caller may then let go). */
+  maskGrid?: VolumeGrid;
+  /** The mask's lesions, in the order of the first entries of analysis.lesions. */
+  maskLesions: LesionVoxels[];
+}
+
 /**
  * One visit: segment volumes, and for each lesion (from the mask, then from the marks) its measures,
  * segment, margin to the nearest other segment and margin alert. Volumes of a visit may lie on
  * different grids; everything meets in world mm.
  */
 export function analyzeVisit(input: VisitInput): VisitAnalysis {
+  return addMeanValues(analyzeVisitLabels(input), input.scan);
+}
+
+/**
+ * Everything of analyzeVisit that needs only the scan's grid; addMeanValues then reads the scan's
+ * voxels once. The command line runs this while the scan is still inflating.
+ */
+export function analyzeVisitLabels(input: Omit<VisitInput, 'scan'> & { scan: VolumeGrid }): LabelAnalysis {
   const setMarginMm = input.marginMm ?? DEFAULT_MARGIN_MM;
   if (!Number.isFinite(setMarginMm) || setMarginMm < 0) throw badInput('margin', `the set margin must be a length in mm ≥ 0, got ${setMarginMm}`);
   // Margins stay exact past the alert threshold so a reader sees how far a lesion is; a floor keeps
@@ -88,13 +105,15 @@ export function analyzeVisit(input: VisitInput): VisitAnalysis {
     checkOverlap(gridOf(input.lesionMask, maskName), gridOf(input.scan, scanName));
   }
 
+  let maskLesions: LesionVoxels[] = [];
   if (input.lesionMask) {
     const mask = input.lesionMask;
     const found = lesionsFromMask(mask, input.lesionFile, input.maxLesions);
+    maskLesions = found.lesions;
     if (found.kind === 'empty') warnings.push(`${input.lesionFile ?? 'lesion mask'}: holds no lesion voxels`);
     found.lesions.forEach((lv, n) => {
       const id = `L${n + 1}`;
-      const lesion = measureMaskLesion(id, mask, lv, input.scan);
+      const lesion = measureMaskLesion(id, mask, lv, null);
       const placed = placeMaskLesion(id, mask, lv.voxels, lesion.centroidMm, map);
       const own = placed.segment ? segmentIndexOf(placed.segment) : BACKGROUND;
       // A lesion with voxels in another segment spans the border: margin 0 by definition.
@@ -122,7 +141,16 @@ export function analyzeVisit(input: VisitInput): VisitAnalysis {
   // second pass over the whole map.
   const liverMl = segments.reduce((sum, s) => sum + s.volumeMl, 0);
   warnings.push(...checkLiverVolume(liverMl, mapName));
-  return { segments, liverVolumeMl: liverMl, lesions, warnings };
+  const mask = input.lesionMask;
+  const maskGrid = mask && { dims: mask.dims, affine: mask.affine, spacingMm: mask.spacingMm };
+  return { analysis: { segments, liverVolumeMl: liverMl, lesions, warnings }, maskGrid, maskLesions };
+}
+
+/** The mask lesions' mean scan values (measureMaskLesion's), filled into the label analysis. */
+export function addMeanValues(labels: LabelAnalysis, scan: Volume): VisitAnalysis {
+  const { analysis, maskGrid, maskLesions } = labels;
+  if (maskGrid) maskLesions.forEach((lv, n) => { analysis.lesions[n].meanValue = maskLesionMeanValue(maskGrid, lv, scan); });
+  return analysis;
 }
 
 function result(

@@ -1,5 +1,6 @@
 import { badFile, tooLarge } from '../errors.js';
-import { makeVolume, type Volume } from './volume.js';
+import { columnNorms } from '../geometry/mat4.js';
+import { makeVolume, type Volume, type VolumeGrid } from './volume.js';
 import { bytesPerVoxel, PLATFORM_LITTLE_ENDIAN, swapBytesInPlace, viewVoxels } from './nifti-datatype.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader, type NiftiInfo } from './nifti-header.js';
 
@@ -27,6 +28,14 @@ export interface ReadNiftiOptions {
   imageBytes?: Uint8Array;
   /** Name of that .img file, for messages. */
   imageFile?: string;
+  /**
+   * The size of the gzip file when `bytes` hold only its first bytes (not for a .hdr/.img pair): the
+   * platform's `inflate`, handed those, reads the rest of the file itself. The command line reads a
+   * large compressed scan from disk this way as it inflates, so it never holds the file whole.
+   */
+  gzipSize?: number;
+  /** Told the header's facts once they are read and checked, before the voxels are inflated. */
+  onHeader?: (info: NiftiInfo) => void;
 }
 
 /** 2 GiB of voxel data: a 512×512×2000 int16 CT fits, a lying header does not get far. */
@@ -36,11 +45,11 @@ export const DEFAULT_MAX_BYTES = 2 * 1024 ** 3;
 const MAX_DEFLATE_RATIO = 1032;
 
 /**
- * The most bytes `gz` can inflate to, capped at `maxOutputBytes`: what an inflater reserves up
- * front, so a tiny file cannot make it reserve a huge buffer.
+ * The most bytes `gzipBytes` of gzip data can inflate to, capped at `maxOutputBytes`: what an
+ * inflater reserves up front, so a tiny file cannot make it reserve a huge buffer.
  */
-export function inflateCapacity(gz: Uint8Array, maxOutputBytes: number): number {
-  return Math.max(0, Math.min(maxOutputBytes, gz.length * MAX_DEFLATE_RATIO + 1024));
+export function inflateCapacity(gzipBytes: number, maxOutputBytes: number): number {
+  return Math.max(0, Math.min(maxOutputBytes, gzipBytes * MAX_DEFLATE_RATIO + 1024));
 }
 
 export function isGzip(bytes: Uint8Array): boolean {
@@ -58,19 +67,23 @@ export async function readNifti(bytes: Uint8Array, file: string, opts: ReadNifti
   const header = isGzip(bytes) ? await inflateOrFail(opts.inflate, bytes, HEADER_BYTES_NEEDED, file) : bytes;
   const { info, warnings } = parseNiftiHeader(header, file);
   checkBudget(info, file, maxBytes);
+  opts.onHeader?.(info);
 
   let source = bytes;
+  let sourceSize = opts.gzipSize ?? bytes.length;
   let dataFile = file;
   if (info.pair) {
+    if (opts.gzipSize !== undefined) throw new Error('readNifti: gzipSize is for single-file images; give a pair\'s header whole');
     if (!opts.imageBytes) throw badFile(file, 'is the header of a .hdr/.img pair; its .img data file is needed too');
     source = opts.imageBytes;
+    sourceSize = source.length;
     dataFile = opts.imageFile ?? `${file} (image data)`;
   }
   const need = info.voxOffset + info.volumeBytes;
   let data = source;
   let where = 'file';
   if (isGzip(source)) {
-    const reachable = inflateCapacity(source, Infinity);
+    const reachable = inflateCapacity(sourceSize, Infinity);
     if (info.voxOffset >= reachable) throw badFile(dataFile, `vox_offset ${info.voxOffset} is past the end of the compressed data`);
     data = await inflateOrFail(opts.inflate, source, Math.min(need, reachable), dataFile);
     where = 'decompressed data';
@@ -83,9 +96,14 @@ export async function readNifti(bytes: Uint8Array, file: string, opts: ReadNifti
   }
 
   const voxels = voxelsOf(data, info);
-  const [nx, ny = 1, nz = 1] = info.dims;
-  const volume = makeVolume([nx, ny, nz], voxels, info.affine, info.datatype, info.slope, info.inter);
+  const volume = makeVolume(gridOfHeader(info).dims, voxels, info.affine, info.datatype, info.slope, info.inter);
   return { info, volume, warnings };
+}
+
+/** The grid of the first volume a header describes (that of readNifti's volume). */
+export function gridOfHeader(info: NiftiInfo): VolumeGrid {
+  const [nx, ny = 1, nz = 1] = info.dims;
+  return { dims: [nx, ny, nz], affine: info.affine, spacingMm: columnNorms(info.affine) };
 }
 
 /** Refuses, before anything is allocated, a first volume larger than the memory budget. */

@@ -2,12 +2,12 @@ import { multiply } from '../geometry/mat4.js';
 import type { Volume, VoxelArray } from './volume.js';
 
 /** Affine from voxel coordinates of `from` to (continuous) voxel coordinates of `to`, via world mm. */
-export function gridToGrid(from: Volume, to: Volume): number[] {
+export function gridToGrid(from: Pick<Volume, 'affine'>, to: Pick<Volume, 'inverse'>): number[] {
   return multiply(to.inverse, from.affine);
 }
 
 /** True when two volumes share dims and, to well under a micrometre, their affine. */
-export function sameGrid(a: Volume, b: Volume): boolean {
+export function sameGrid(a: Pick<Volume, 'dims' | 'affine'>, b: Pick<Volume, 'dims' | 'affine'>): boolean {
   if (a.dims[0] !== b.dims[0] || a.dims[1] !== b.dims[1] || a.dims[2] !== b.dims[2]) return false;
   for (let n = 0; n < 12; n++) if (Math.abs(a.affine[n] - b.affine[n]) > 1e-6) return false;
   return true;

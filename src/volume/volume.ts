@@ -24,6 +24,9 @@ export interface Volume {
   readonly spacingMm: readonly [number, number, number];
 }
 
+/** A volume's grid without its voxels. */
+export type VolumeGrid = Pick<Volume, 'dims' | 'affine' | 'spacingMm'>;
+
 export function makeVolume(
   dims: readonly [number, number, number],
   data: VoxelArray,

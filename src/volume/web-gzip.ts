@@ -30,7 +30,7 @@ export const webInflate: Inflate = async (gz, maxOutputBytes) => {
     if (!stopped) await writer.close();
   })().catch(() => undefined);
   const reader = stream.readable.getReader();
-  const cap = inflateCapacity(gz, maxOutputBytes);
+  const cap = inflateCapacity(gz.length, maxOutputBytes);
   let out = new Uint8Array(cap);
   let n = 0;
   for (;;) {

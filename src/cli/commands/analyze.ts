@@ -4,8 +4,9 @@ import { parseMarks } from '../../lesions/marks.js';
 import { roundTo } from '../../rounding.js';
 import { visitSegmentMap } from '../../patient/visit-map.js';
 import type { SegmentMap } from '../../segments/segment-map.js';
-import { analyzeVisit, DEFAULT_MARGIN_MM, type LesionResult, type VisitAnalysis } from '../../visit/analyze.js';
-import type { Volume } from '../../volume/volume.js';
+import { addMeanValues, analyzeVisitLabels, DEFAULT_MARGIN_MM, type LabelAnalysis, type LesionResult, type VisitAnalysis } from '../../visit/analyze.js';
+import { gridOfHeader, type NiftiInfo } from '../../volume/nifti-read.js';
+import type { Volume, VolumeGrid } from '../../volume/volume.js';
 import { maxLesionsOption, numberOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
 import { loadVolume, readTextFile } from '../node-io.js';
@@ -35,25 +36,47 @@ export const analyze: Command = {
     const marginMm = numberOption(args, 'margin-mm', DEFAULT_MARGIN_MM);
 
     const warnings: string[] = [];
-    // The scan first, alone: its compressed bytes are let go before anything else is held. Then the
-    // label volumes at once, each inflating on the thread pool. Warnings keep the files' order.
-    const scanLoaded = await loadVolume(scanFile);
-    const [mapLoaded, maskLoaded, marksText] = await Promise.all([
-      visitMap(segmentsFile, schemeFile, liverFile, landmarksFile),
-      lesionsFile !== undefined ? loadVolume(lesionsFile) : undefined,
-      marksFile !== undefined ? readTextFile(marksFile) : undefined,
-    ]);
-    const scan = keep(scanLoaded, warnings);
-    warnings.push(...mapLoaded.warnings);
-    const segments = mapLoaded.map;
-    const lesionMask = maskLoaded !== undefined ? keep(maskLoaded, warnings) : undefined;
-    const marks = marksText !== undefined ? parseMarks(marksText, marksFile as string) : undefined;
-    const analysis = analyzeVisit({ scan, segments, lesionMask, marks, marginMm, lesionFile: lesionsFile, scanFile, segmentsFile: segmentsFile ?? liverFile, maxLesions: maxLesionsOption(args) });
+    // The scan's voxels are needed only for the lesions' mean values, so the scan inflates on the
+    // thread pool while the label volumes are read and analysed on its grid; its voxels are read
+    // last, in one pass. A scan refused by its header is still reported before anything else.
+    let headerRead: (info: NiftiInfo) => void = () => undefined;
+    const scanHeader = new Promise<NiftiInfo>((resolve) => { headerRead = resolve; });
+    const scanLoading = loadVolume(scanFile, { onHeader: (info) => headerRead(info) });
+    // Awaited below; a label file's error may come first and must not leave this one unhandled.
+    scanLoading.catch(() => undefined);
+    const scanGrid = gridOfHeader(await Promise.race([scanHeader, scanLoading.then((l) => l.info)]));
+    const labels = await analyzeLabels(scanGrid, { scanFile, segmentsFile, schemeFile, liverFile, landmarksFile, lesionsFile, marksFile, marginMm, maxLesions: maxLesionsOption(args) });
+    const scan = keep(await scanLoading, warnings);
+    warnings.push(...labels.warnings);
+    const analysis = addMeanValues(labels.analysis, scan);
     analysis.warnings.unshift(...warnings);
     if (args.options.has('json')) process.stdout.write(`${JSON.stringify(forJson(analysis))}\n`);
     else process.stdout.write(summary(analysis, marginMm));
   },
 };
+
+interface VisitFiles {
+  scanFile: string; segmentsFile?: string; schemeFile?: string; liverFile?: string; landmarksFile?: string;
+  lesionsFile?: string; marksFile?: string; marginMm: number; maxLesions?: number;
+}
+
+/**
+ * Reads the label files and analyses them on the scan's grid. The label volumes stay inside this
+ * function, so they can be let go while the scan is still inflating.
+ */
+async function analyzeLabels(scanGrid: VolumeGrid, f: VisitFiles): Promise<{ analysis: LabelAnalysis; warnings: string[] }> {
+  const [mapLoaded, maskLoaded, marksText] = await Promise.all([
+    visitMap(f.segmentsFile, f.schemeFile, f.liverFile, f.landmarksFile),
+    f.lesionsFile !== undefined ? loadVolume(f.lesionsFile) : undefined,
+    f.marksFile !== undefined ? readTextFile(f.marksFile) : undefined,
+  ]);
+  const marks = marksText !== undefined ? parseMarks(marksText, f.marksFile as string) : undefined;
+  const analysis = analyzeVisitLabels({
+    scan: scanGrid, segments: mapLoaded.map, lesionMask: maskLoaded?.volume, marks, marginMm: f.marginMm, lesionFile: f.lesionsFile,
+    scanFile: f.scanFile, segmentsFile: f.segmentsFile ?? f.liverFile, maxLesions: f.maxLesions,
+  });
+  return { analysis, warnings: [...mapLoaded.warnings, ...(maskLoaded?.warnings ?? [])] };
+}
 
 function keep(loaded: { volume: Volume; warnings: string[] }, warnings: string[]): Volume {
   warnings.push(...loaded.warnings);
