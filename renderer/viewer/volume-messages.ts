@@ -24,6 +24,14 @@ export interface VisitVolumes {
   /** World bounding box of the liver mask, when the visit has one. */
   liverBoxMm: { min: Vec3; max: Vec3 } | null;
   warnings: string[];
+  /** The scan alone, shown while its segment map and lesions are still being made. */
+  overlaysPending: boolean;
 }
+
+/** What the volumes worker sends first, as soon as the scan is decoded (its voxels handed over). */
+export type VisitScan = Pick<VisitVolumes, 'patientId' | 'visitId' | 'dims' | 'affine' | 'inverse' | 'spacingMm' | 'scan' | 'slope' | 'inter' | 'values' | 'warnings'>;
+
+/** The worker's result, sent after the scan: what is drawn over it. */
+export type VisitOverlays = Pick<VisitVolumes, 'segments' | 'segmentProblem' | 'lesions' | 'liverBoxMm' | 'warnings'>;
 
 export type VolumesRequest = { type: 'load'; patientId: string; visitId: string };
