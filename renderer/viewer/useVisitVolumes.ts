@@ -5,7 +5,7 @@ import type { VisitOverlays, VisitScan, VisitVolumes, VolumesRequest } from './v
  * Another visit's scan is shown as soon as it is decoded, its overlays following; a reload of the
  * visit on screen (after an edit) keeps the old images until the new ones are whole.
  */
-const PARTS: JobParts<VisitVolumes> = {
+export const VISIT_VOLUME_PARTS: JobParts<VisitVolumes> = {
   early(part, shown) {
     const scan = part as VisitScan;
     if (shown && shown.patientId === scan.patientId && shown.visitId === scan.visitId) return null;
@@ -30,7 +30,7 @@ export function useVisitVolumes(patientId: string, visitId: string, revision: nu
     'reading the images stopped unexpectedly',
     [patientId, visitId, revision],
     undefined,
-    PARTS,
+    VISIT_VOLUME_PARTS,
   );
   return { state, volumes: last };
 }
