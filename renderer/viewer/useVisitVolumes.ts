@@ -1,21 +1,5 @@
-import { useJob, type JobParts, type JobState } from '../workers/job-client';
-import type { VisitOverlays, VisitScan, VisitVolumes, VolumesRequest } from './volume-messages';
-
-/**
- * Another visit's scan is shown as soon as it is decoded, its overlays following; a reload of the
- * visit on screen (after an edit) keeps the old images until the new ones are whole.
- */
-export const VISIT_VOLUME_PARTS: JobParts<VisitVolumes> = {
-  early(part, shown) {
-    const scan = part as VisitScan;
-    if (shown && shown.patientId === scan.patientId && shown.visitId === scan.visitId) return null;
-    return { ...scan, segments: null, segmentProblem: null, lesions: null, liverBoxMm: null, overlaysPending: true };
-  },
-  whole(part, result) {
-    const scan = part as VisitScan, overlays = result as VisitOverlays;
-    return { ...scan, ...overlays, warnings: [...scan.warnings, ...overlays.warnings], overlaysPending: false };
-  },
-};
+import { useJob, type JobState } from '../workers/job-client';
+import { VISIT_VOLUME_PARTS, type VisitVolumes, type VolumesRequest } from './volume-messages';
 
 /**
  * Decodes a visit's volumes in a worker. The decoded arrays arrive by transfer and are held once per

@@ -34,4 +34,21 @@ export type VisitScan = Pick<VisitVolumes, 'patientId' | 'visitId' | 'dims' | 'a
 /** The worker's result, sent after the scan: what is drawn over it. */
 export type VisitOverlays = Pick<VisitVolumes, 'segments' | 'segmentProblem' | 'lesions' | 'liverBoxMm' | 'warnings'>;
 
+/**
+ * How the worker's two replies make what the viewer shows (the viewer's `JobParts`): another visit's
+ * scan is shown as soon as it is decoded, its overlays following; a reload of the visit on screen
+ * (after an edit) keeps the old images until the new ones are whole. Nothing is copied.
+ */
+export const VISIT_VOLUME_PARTS = {
+  early(part: unknown, shown: VisitVolumes | null): VisitVolumes | null {
+    const scan = part as VisitScan;
+    if (shown && shown.patientId === scan.patientId && shown.visitId === scan.visitId) return null;
+    return { ...scan, segments: null, segmentProblem: null, lesions: null, liverBoxMm: null, overlaysPending: true };
+  },
+  whole(part: unknown, result: unknown): VisitVolumes {
+    const scan = part as VisitScan, overlays = result as VisitOverlays;
+    return { ...scan, ...overlays, warnings: [...scan.warnings, ...overlays.warnings], overlaysPending: false };
+  },
+};
+
 export type VolumesRequest = { type: 'load'; patientId: string; visitId: string };

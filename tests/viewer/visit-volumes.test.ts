@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { VISIT_VOLUME_PARTS } from '../../renderer/viewer/useVisitVolumes.js';
-import type { VisitOverlays, VisitScan, VisitVolumes } from '../../renderer/viewer/volume-messages.js';
+import { VISIT_VOLUME_PARTS, type VisitOverlays, type VisitScan, type VisitVolumes } from '../../renderer/viewer/volume-messages.js';
 
 const scanOf = (visitId: string): VisitScan => ({
   patientId: 'P1',
