@@ -116,11 +116,15 @@ def main():
         if own != 0 and others:
             margin, nearest = 0.0, NAMES[max(others, key=lambda v: seg_counts[v])]
         elif own != 0:
-            g = np.ceil(cap / spacing).astype(int)
+            # Margin to the border surface, face to face: along each axis the centre offset less half a
+            # voxel at each end (floored at 0), which is the centre distance from the lesion grown by
+            # its 26 neighbours. One voxel more of box reaches every face within the cap.
+            g = np.ceil(cap / spacing).astype(int) + 1
             lo = np.maximum(origin - g, 0)
             hi = np.minimum(np.array([s.stop for s in box]) + g, labels.shape)
             big = tuple(slice(l, h) for l, h in zip(lo, hi))
-            dt = ndimage.distance_transform_edt(labels[big] != n, sampling=spacing)
+            grown = ndimage.binary_dilation(labels[big] == n, structure=np.ones((3, 3, 3), dtype=bool))
+            dt = ndimage.distance_transform_edt(~grown, sampling=spacing)
             s = seg[big]
             other = (s != 0) & (s != own)
             if other.any():
@@ -135,7 +139,7 @@ def main():
             'id': f'L{n}', 'centroidMm': centroid.tolist(), 'segment': NAMES.get(own),
             'segmentFractions': fractions, 'volumeMl': len(idx) * voxel_ml,
             'longestAxialMm': longest, 'shortAxisMm': short, 'marginMm': margin,
-            'nearestOtherSegment': nearest, 'marginAlert': margin is not None and margin < a.margin_mm,
+            'nearestOtherSegment': nearest, 'marginAlert': margin is not None and margin <= a.margin_mm,
             'max3dMm': max3d,
             'meanValue': float(scan[box][region].mean()),
         })

@@ -387,7 +387,7 @@ const MANIFEST_SEEDS: unknown[] = [
       { id: 'v1', date: '2026-01-12', scan: 'v1/scan.nii.gz', segments: 'v1/segments.nii.gz', scheme: 'default', lesions: 'v1/lesions.nii.gz' },
       { id: 'v2', date: '2026-03-02', scan: 'v2/scan.nii.gz', liver: 'v2/liver.nii.gz', landmarks: 'v2/landmarks.json', marks: 'v2/marks.json' },
     ],
-    targets: ['T1', 'T3'],
+    targets: ['A', 'C'],
   },
   {
     patient: { id: 'DEMO-0002', birthYear: 1953, heightCm: 164, weightKg: 71, sex: 'female', demo: true },

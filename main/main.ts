@@ -1,4 +1,3 @@
-import { readFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { app, BrowserWindow, dialog, ipcMain, protocol, session, type FileFilter, type IpcMainInvokeEvent } from 'electron';
@@ -7,7 +6,7 @@ import {
 } from './bridge-api.js';
 import { readChosenFiles, writeFileAtomic } from './file-access.js';
 import { APP_ORIGIN, APP_SCHEME, CONTENT_SECURITY_POLICY, isAllowedRequest, isAppUrl, windowOptions } from './security.js';
-import { contentType, resolveStaticPath } from './static-files.js';
+import { contentType, openRegularFile, resolveStaticPath } from './static-files.js';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const rendererRoot = join(here, '..', 'renderer');
@@ -20,14 +19,17 @@ protocol.registerSchemesAsPrivileged([
 /** Serves the built renderer on falciform://app/ with the CSP on every response. */
 async function serveApp(request: Request): Promise<Response> {
   const path = resolveStaticPath(rendererRoot, new URL(request.url).pathname);
-  if (!path) return new Response('not found', { status: 404 });
+  const file = path ? await openRegularFile(path) : null;
+  if (!path || !file) return new Response('not found', { status: 404 });
   try {
-    const body = await readFile(path);
+    const body = await file.handle.readFile();
     return new Response(body, {
       headers: { 'content-type': contentType(path), 'content-security-policy': CONTENT_SECURITY_POLICY },
     });
   } catch {
     return new Response('not found', { status: 404 });
+  } finally {
+    await file.handle.close();
   }
 }
 

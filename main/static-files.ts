@@ -1,3 +1,5 @@
+import { constants } from 'node:fs';
+import { open, type FileHandle } from 'node:fs/promises';
 import { extname, join, normalize, sep } from 'node:path';
 
 const TYPES: Record<string, string> = {
@@ -34,4 +36,25 @@ export function resolveStaticPath(root: string, urlPath: string): string | null 
   const full = normalize(join(root, relative));
   const base = normalize(root.endsWith(sep) ? root : root + sep);
   return full.startsWith(base) ? full : null;
+}
+
+/**
+ * Opens a file to serve only if the opened file itself is a regular file: a FIFO, a device, or a link
+ * to one placed in the app's folder is refused at once (null) instead of blocking a read for ever.
+ * O_NONBLOCK keeps the open itself from waiting for a FIFO's writer; the check is on the open handle,
+ * so nothing can be swapped in between the check and the read. The caller closes the handle.
+ */
+export async function openRegularFile(path: string): Promise<{ handle: FileHandle; size: number } | null> {
+  let handle: FileHandle;
+  try {
+    handle = await open(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
+  } catch {
+    return null;
+  }
+  const info = await handle.stat().catch(() => null);
+  if (!info?.isFile()) {
+    await handle.close();
+    return null;
+  }
+  return { handle, size: info.size };
 }

@@ -1,9 +1,7 @@
-import { createReadStream } from 'node:fs';
-import { stat } from 'node:fs/promises';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { CONTENT_SECURITY_POLICY } from './security.js';
-import { contentType, resolveStaticPath } from './static-files.js';
+import { contentType, openRegularFile, resolveStaticPath } from './static-files.js';
 
 export interface WebServer {
   url: string;
@@ -15,6 +13,7 @@ export interface WebServer {
  * Serves the built renderer on 127.0.0.1 only, for the browser-window mode of `npm start` and for
  * the end-to-end tests. Same CSP as the desktop window; GET and HEAD only; requests addressed to
  * any other host name are refused (a web page elsewhere cannot reach it through DNS rebinding).
+ * Only regular files are served: a FIFO or device in the folder answers 404 at once.
  */
 export async function startWebServer(root: string, port = 0): Promise<WebServer> {
   const server: Server = createServer(async (req, res) => {
@@ -29,14 +28,14 @@ export async function startWebServer(root: string, port = 0): Promise<WebServer>
       return;
     }
     const path = resolveStaticPath(root, req.url ?? '/');
-    const info = path ? await stat(path).catch(() => null) : null;
-    if (!path || !info?.isFile()) {
+    const file = path ? await openRegularFile(path) : null;
+    if (!path || !file) {
       res.writeHead(404, { 'content-type': 'text/plain' }).end('not found');
       return;
     }
     res.writeHead(200, {
       'content-type': contentType(path),
-      'content-length': info.size,
+      'content-length': file.size,
       'content-security-policy': CONTENT_SECURITY_POLICY,
       'x-content-type-options': 'nosniff',
       'referrer-policy': 'no-referrer',
@@ -45,8 +44,12 @@ export async function startWebServer(root: string, port = 0): Promise<WebServer>
       // later (a patient opened with the network cut) load from the cache. Everything else revalidates.
       'cache-control': /\/assets\/[^/]+-[A-Za-z0-9_-]{8}\.\w+$/.test(path) ? 'public, max-age=31536000, immutable' : 'no-cache',
     });
-    if (req.method === 'HEAD') res.end();
-    else createReadStream(path).pipe(res);
+    if (req.method === 'HEAD') {
+      await file.handle.close();
+      res.end();
+    } else {
+      file.handle.createReadStream().pipe(res);
+    }
   });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);

@@ -1,7 +1,8 @@
 import { Caution } from './components/Caution';
 import { ReaderName } from './components/ReaderName';
 import { RouteLink } from './components/RouteLink';
-import { useRoute } from './navigation';
+import { ScreenBoundary } from './components/ScreenBoundary';
+import { routeHash, useRoute, type Route } from './navigation';
 import { About } from './screens/About';
 import { PatientList } from './screens/PatientList';
 import { PatientWorkspace } from './screens/PatientWorkspace';
@@ -21,13 +22,23 @@ export function App() {
         <RouteLink to={{ screen: 'about' }} className="about-link">About</RouteLink>
       </header>
       <main className="app-main">
-        {route.screen === 'patients' && <PatientList />}
-        {route.screen === 'about' && <About />}
-        {(route.screen === 'patient' || route.screen === 'visit') && <PatientWorkspace key={route.patientId} route={route} />}
+        {/* Keyed by the address: a screen that failed is drawn afresh once the user goes elsewhere. */}
+        <ScreenBoundary key={routeHash(route)} screen={screenName(route)}>
+          {route.screen === 'patients' && <PatientList />}
+          {route.screen === 'about' && <About />}
+          {(route.screen === 'patient' || route.screen === 'visit') && <PatientWorkspace key={route.patientId} route={route} />}
+        </ScreenBoundary>
       </main>
       <footer className="app-footer">
         <Caution />
       </footer>
     </div>
   );
+}
+
+function screenName(route: Route): string {
+  if (route.screen === 'patients') return 'the patient list';
+  if (route.screen === 'about') return 'the About page';
+  if (route.screen === 'visit') return `visit ${route.visitId} of patient ${route.patientId}`;
+  return `patient ${route.patientId}`;
 }

@@ -21,6 +21,11 @@ export interface PatientAnalysis {
   manifest: Manifest;
   visits: VisitResult[];
   followup: FollowupResult;
+  /** Stored visits without a segment map yet, left out of `manifest` and the analysis. */
+  waitingVisits: { id: string; date: string }[];
 }
+
+/** Why a stored visit is left out of the analysis. */
+export const WAITING_FOR_MAP = 'no segment map yet (no map imported, no landmark set placed); left out of the analysis until it has one';
 
 export type AnalysisRequest = { type: 'analyse'; patientId: string };

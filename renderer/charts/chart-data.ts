@@ -1,5 +1,5 @@
 import type { FollowupResult } from '../../src/followup/followup.js';
-import { compareIds } from '../../src/followup/ids.js';
+import { compareTrackIds } from '../../src/followup/ids.js';
 import type { OverallCategory } from '../../src/followup/recist.js';
 import type { Criteria, VisitResponse } from '../../src/followup/response.js';
 import type { TrackStatus } from '../../src/followup/tracks.js';
@@ -66,7 +66,7 @@ export function lesionSeries(f: FollowupResult): LesionSeries[] {
     }
     return { track: track.id, segment, target: track.target, points };
   });
-  return series.sort((a, b) => segmentRank(a.segment) - segmentRank(b.segment) || compareIds(a.track, b.track));
+  return series.sort((a, b) => segmentRank(a.segment) - segmentRank(b.segment) || compareTrackIds(a.track, b.track));
 }
 
 export interface BurdenPoint extends TimePoint {
@@ -137,7 +137,7 @@ export function responseData(f: FollowupResult, criteria: Criteria = f.criteria)
   for (const v of f.visits) {
     const r = responseOf(v, criteria);
     if (!r) continue;
-    targets = r.targets.map((x) => x.track);
+    targets = r.targets.map((x) => x.track).sort(compareTrackIds);
     points.push({
       visit: v.id, date: v.date, t: dateMs(v.date), sumMm: r.targetSumMm, complete: r.targetSumComplete, category: r.category,
       changeFromBaselinePct: r.changeFromBaselinePct, changeFromNadirPct: r.changeFromNadirPct, nadirSumMm: r.nadirSumMm,

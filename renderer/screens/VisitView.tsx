@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useMemo, useState } from 'react';
 import { isFalciformError } from '../../src/errors';
+import { showsViable } from '../../src/followup/followup';
 import type { Vec3 } from '../../src/geometry/mat4';
 import type { WindowPreset } from '../../src/model/records';
 import { roundTo } from '../../src/rounding';
@@ -11,20 +12,22 @@ import { ConfirmDialog } from '../components/ConfirmDialog';
 import { RouteLink } from '../components/RouteLink';
 import { go } from '../navigation';
 import { appDb } from '../store/db';
-import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark } from '../store/edits';
+import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark, saveMarkViable } from '../store/edits';
 import { getSetting } from '../store/patients';
 import { useStored } from '../store/use-stored';
 import { markFromCaliper, nextMarkId } from '../viewer/caliper';
-import { LandmarkPanel, type LandmarkMode } from '../viewer/LandmarkPanel';
+import { LandmarkPanel, type LandmarkMode, type ProposalState } from '../viewer/LandmarkPanel';
 import { landmarkProblems, landmarkQcNotes, LANDMARK_LABELS, type LandmarkNotes } from '../viewer/landmark-qc';
 import { diameterMarks, lesionOfDiameter } from '../viewer/diameter-marks';
 import { GrowPanel, type GrowKind } from '../viewer/GrowPanel';
 import { LesionPanel } from '../viewer/LesionPanel';
 import { SegmentPanel } from '../viewer/SegmentPanel';
-import { displayMmOfWorld, PLANES, sliceLayout, sliceStepTowardsPlus, type Plane, type SliceLayout } from '../viewer/slice';
+import { ComparePane } from '../viewer/ComparePane';
+import { displayMmOfWorld, PLANES, sliceLayout, sliceStepTowardsPlus, worldOfDisplayMm, type Plane, type SliceLayout } from '../viewer/slice';
 import { SliceViewer, type DraftCaliper, type Tool } from '../viewer/SliceViewer';
 import { useVisitInputs } from '../viewer/useVisitInputs';
 import { useVisitVolumes } from '../viewer/useVisitVolumes';
+import { ViableLegend } from '../viewer/ViableLegend';
 import { ViewerToolbar } from '../viewer/ViewerToolbar';
 import type { VisitVolumes } from '../viewer/volume-messages';
 import { CT_PRESETS, type WindowLevel } from '../viewer/window-level';
@@ -35,11 +38,13 @@ interface ViewPrefs {
   window: WindowLevel | null;
   showSegments: boolean;
   opacity: number;
+  /** The viable-tumour mask drawn over the image, when the visit has one. */
+  showViable: boolean;
 }
 
 /** One visit: its scan with the segment map and lesions, the lesion table, marks and landmarks. */
 export function VisitView({ visitId, lesionId }: { visitId: string; lesionId?: string }) {
-  const [prefs, setPrefs] = useState<ViewPrefs>({ plane: 'axial', window: null, showSegments: true, opacity: 0.35 });
+  const [prefs, setPrefs] = useState<ViewPrefs>({ plane: 'axial', window: null, showSegments: true, opacity: 0.35, showViable: true });
   // Keyed by visit: slices, drafts and the decoding worker start afresh for each visit.
   return <VisitScreen key={visitId} visitId={visitId} lesionId={lesionId} prefs={prefs} setPrefs={setPrefs} />;
 }
@@ -95,7 +100,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const [landmarkStatus, setLandmarkStatus] = useState<string | null>(null);
   const [placing, setPlacing] = useState<LandmarkName | null>(null);
   const [growPick, setGrowPick] = useState<GrowKind | null>(null);
-  const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3 } | null>(null);
+  const [growSeed, setGrowSeed] = useState<{ kind: GrowKind; p: Vec3; path?: Vec3[] } | null>(null);
+  const [proposed, setProposed] = useState<ProposalState | null>(null);
+  const [compareId, setCompareId] = useState<string | null>(null);
 
   const result = analysis?.visits.find((v) => v.id === visitId) ?? null;
   const record = inputs?.record ?? null;
@@ -147,6 +154,36 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     setSlices((old) => (old ? { ...old, [prefs.plane]: Math.min(layout.depth - 1, Math.max(0, old[prefs.plane] + n * sliceStepTowardsPlus(layout))) } : old));
   }, [layout, prefs.plane]);
 
+  // Another visit beside this one: both must be in the follow-up, whose alignments relate their worlds.
+  const followed = analysis?.followup.visits ?? [];
+  const currentFollowup = followed.find((v) => v.id === visitId) ?? null;
+  const compare = currentFollowup ? followed.find((v) => v.id === compareId && v.id !== visitId) ?? null : null;
+  const focusMm: Vec3 | null = layout && volumes && slices
+    ? worldOfDisplayMm(layout, volumes.affine, (layout.width * layout.colMm) / 2, (layout.height * layout.rowMm) / 2, slice) : null;
+  const focusOn = useCallback((p: Vec3) => {
+    if (!layout || !volumes) return;
+    setSlices((old) => {
+      if (!old) return old;
+      const now = old[prefs.plane];
+      const want = displayMmOfWorld(layout, volumes.inverse, p).slice;
+      // A finer-sliced visit beside this one still moves this one, a slice at a time.
+      let s = Math.round(want);
+      if (s === now && Math.abs(want - now) > 1e-6) s = now + Math.sign(want - now);
+      return { ...old, [prefs.plane]: Math.min(layout.depth - 1, Math.max(0, s)) };
+    });
+  }, [layout, volumes, prefs.plane]);
+  const tracksByVisit = useMemo(() => {
+    const out = new Map<string, Map<string, string>>();
+    for (const t of analysis?.followup.tracks ?? []) {
+      for (const [v, lesion] of Object.entries(t.lesions)) {
+        if (!out.has(v)) out.set(v, new Map());
+        out.get(v)!.set(lesion, t.id);
+      }
+    }
+    return out;
+  }, [analysis]);
+  const trackIn = (v: string) => (lesionId: string) => tracksByVisit.get(v)?.get(lesionId);
+
   const visitIds = inputs?.visitIds ?? [];
   const at = visitIds.indexOf(visitId);
   const previous = at > 0 ? visitIds[at - 1] : null;
@@ -166,6 +203,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           case '[': openVisit(previous); return true;
           case ']': openVisit(next); return true;
           case 'o': case 'O': setPrefs((p) => ({ ...p, showSegments: !p.showSegments })); return true;
+          case 'v': case 'V': setPrefs((p) => ({ ...p, showViable: !p.showViable })); return true;
           case 'Escape': setDraft(null); setTool('look'); setHint(null); setPlacing(null); setGrowPick(null); return true;
           default: return false;
         }
@@ -198,9 +236,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
   const takenIds = [...(result?.analysis.lesions.map((l) => l.id) ?? []), ...marks.map((m) => m.id)];
   const draftId = nextMarkId(takenIds);
 
-  const saveDraft = async (shortAxisMm: number) => {
+  const saveDraft = async (shortAxisMm: number, viableAxialMm?: number) => {
     if (!draft) return;
-    const mark = markFromCaliper(draftId, draft.a, draft.b, shortAxisMm);
+    const mark = markFromCaliper(draftId, draft.a, draft.b, shortAxisMm, viableAxialMm);
     if (await edit(async () => { await saveMark(db, patient.id, visitId, mark, 'create'); return `Lesion ${mark.id} added; the analysis is updating.`; })) {
       setDraft(null);
       setSelected(mark.id);
@@ -220,8 +258,24 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     void edit(async () => { await saveMark(db, patient.id, visitId, { ...m, shortAxisMm: roundTo(shortAxisMm, 1) }, 'update'); return `Short axis of ${id} saved.`; });
   };
 
-  const landmarkMode: LandmarkMode = !record || !record.volumes.includes('segments') ? 'built' : record.volumes.includes('liver') ? 'imported-with-liver' : 'imported';
-  const shownLandmarks = landmarkDraft ?? inputs?.landmarks ?? null;
+  const setViable = (id: string, viableAxialMm: number | null) => {
+    void edit(async () => {
+      await saveMarkViable(db, patient.id, visitId, id, viableAxialMm);
+      return viableAxialMm === null ? `Viable diameter of ${id} cleared.` : `Viable diameter of ${id} saved: ${viableAxialMm.toFixed(1)} mm.`;
+    });
+  };
+  const visitFollowup = analysis?.followup.visits.find((v) => v.id === visitId);
+  const viableColumn = analysis && showsViable(analysis.followup) ? (visitFollowup?.viableAxialMm ?? {}) : null;
+
+  const landmarkMode: LandmarkMode = record && !record.volumes.includes('segments') && !record.volumes.includes('liver') ? 'no-liver'
+    : !record || !record.volumes.includes('segments') ? 'built' : record.volumes.includes('liver') ? 'imported-with-liver' : 'imported';
+  // Landmarks carried from an earlier visit: on screen only (never stored or analysed) until confirmed.
+  const proposal = inputs && !inputs.landmarks && landmarkMode === 'built' ? volumes?.proposal ?? null : null;
+  useEffect(() => {
+    setProposed(proposal ? { proposal, moved: [] } : null);
+    if (proposal) setTool('landmarks');
+  }, [proposal]);
+  const shownLandmarks = landmarkDraft ?? inputs?.landmarks ?? proposed?.proposal.set ?? null;
   const problems = useMemo(() => (shownLandmarks ? landmarkProblems(shownLandmarks) : null), [shownLandmarks]);
   const qc = useMemo(
     () => (shownLandmarks && !problems && inputs ? landmarkQcNotes(shownLandmarks, inputs.otherLandmarks) : null),
@@ -235,12 +289,31 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
     return out;
   }, [problems, qc]);
 
+  const confirmProposal = (state: ProposalState) => {
+    const { proposal: from, moved } = state;
+    void edit(async () => {
+      await buildMapFromLandmarks(db, patient.id, visitId, from.set, {
+        proposedFrom: from.fromVisit, alignment: from.method, residualMm: from.residualMm === null ? null : roundTo(from.residualMm, 2),
+        rotationDeg: roundTo(from.rotationDeg, 2), movedByReader: [...moved],
+      });
+      return `Landmarks confirmed (${moved.length} of ${LANDMARK_NAMES.length} moved); the segment map is being built from them.`;
+    }, { volumes: true }).then((ok) => { if (ok) setProposed(null); });
+  };
+
   const moveLandmark = async (name: LandmarkName, p: Vec3) => {
     setPlacing(null);
     setHint(null);
     if (!shownLandmarks) return;
     const set: LandmarkSet = { points: { ...shownLandmarks.points, [name]: p } };
     setLandmarkStatus(null);
+    if (proposed && !inputs?.landmarks) {
+      // A moved proposed point counts as confirmed; once every point is, the set is stored.
+      const moved = proposed.moved.includes(name) ? proposed.moved : [...proposed.moved, name];
+      const next: ProposalState = { proposal: { ...proposed.proposal, set }, moved };
+      setProposed(next);
+      if (moved.length === LANDMARK_NAMES.length && !landmarkProblems(set)) confirmProposal(next);
+      return;
+    }
     if (landmarkProblems(set)) {
       // Kept on screen, not stored: a set the plane rule refuses would stop the patient's analysis.
       setLandmarkDraft(set);
@@ -277,7 +350,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
         <h2 data-testid="visit-title">Visit {visitId}{visitDate ? <span className="visit-date"> · {visitDate}</span> : null}</h2>
         {record && (
           <span className="visit-facts">
-            Segment map {landmarkMode === 'built' ? <>built from landmarks <span className="approx" data-testid="plane-approximation" title={PLANE_APPROXIMATION}>(flat-plane approximation)</span></> : 'imported'} · lesions from <span data-testid="lesion-source">{lesionSource || 'nothing'}</span>
+            Segment map {landmarkMode === 'no-liver' || (landmarkMode === 'built' && !inputs?.landmarks) ? 'none yet' : landmarkMode === 'built' ? <>built from landmarks <span className="approx" data-testid="plane-approximation" title={PLANE_APPROXIMATION}>(flat-plane approximation)</span></> : 'imported'} · lesions from <span data-testid="lesion-source">{lesionSource || 'nothing'}</span>
           </span>
         )}
         {record?.dicom && (
@@ -290,6 +363,14 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           </span>
         )}
         <span className="visit-nav">
+          <label className="compare-choice">
+            Beside:{' '}
+            <select value={compare?.id ?? ''} onChange={(e) => setCompareId(e.target.value || null)} disabled={!currentFollowup} data-testid="compare-visit"
+              title={currentFollowup ? 'Show another visit beside this one, at the same anatomical place' : 'This visit is not in the analysis yet'}>
+              <option value="">no other visit</option>
+              {followed.filter((v) => v.id !== visitId).map((v) => <option key={v.id} value={v.id}>visit {v.id} · {v.date}</option>)}
+            </select>
+          </label>
           <button type="button" onClick={() => openVisit(previous)} disabled={!previous} data-testid="previous-visit" title="Previous visit ( [ )">‹ {previous ?? 'first visit'}</button>
           <button type="button" onClick={() => openVisit(next)} disabled={!next} data-testid="next-visit" title="Next visit ( ] )">{next ?? 'last visit'} ›</button>
         </span>
@@ -297,7 +378,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
       {/* One reserved line for progress and edit messages, so the images do not jump when they come and go. */}
       <div className="visit-status">
         <AnalysisStatus state={state} />
-        {analysis && !result && state.status === 'ready' && <p className="notice error" role="alert">Visit {visitId} is not among {patient.id}&apos;s visits.</p>}
+        {analysis && !result && state.status === 'ready' && (record && !record.volumes.includes('segments') && !inputs?.landmarks
+          ? <p className="notice" role="status" data-testid="visit-waiting">Visit {visitId} has no segment map yet, so it is left out of the analysis: {landmarkMode === 'no-liver' ? 'grow the liver from a click, then' : ''} confirm or place its landmarks.</p>
+          : <p className="notice error" role="alert">Visit {visitId} is not among {patient.id}&apos;s visits.</p>)}
         {notice && (
           <p className={`notice ${notice.kind === 'done' ? 'done' : 'problem'}`} role={notice.kind === 'problem' ? 'alert' : 'status'} data-testid="edit-notice">{notice.text}</p>
         )}
@@ -323,6 +406,9 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             </div>
           )}
           {loading.status === 'failed' && <p className="notice problem" role="alert" data-testid="volumes-error">The images could not be shown: {loading.message}</p>}
+          <div className={compare ? 'compare-panes' : 'single-pane'}>
+          <div className="compare-pane">
+          {compare && <p className="pane-title"><strong>Visit {visitId}</strong> · {visitDate} · this visit</p>}
           {volumes && layout && slices && prefs.window ? (
             <SliceViewer
               volumes={volumes}
@@ -332,6 +418,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               window={prefs.window}
               onWindow={(w) => setPrefs((p) => ({ ...p, window: w }))}
               showSegments={prefs.showSegments}
+              showViable={prefs.showViable}
               opacity={prefs.opacity}
               tool={tool}
               marks={drawnMarks}
@@ -343,8 +430,11 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               landmarks={shownLandmarks}
               landmarkNotes={notesOnImage}
               onMoveLandmark={(name, p) => void moveLandmark(name, p)}
+              proposed={proposed ? LANDMARK_NAMES.filter((n) => !proposed.moved.includes(n)) : undefined}
               placing={placing}
               onHint={setHint}
+              trackOf={compare ? trackIn(visitId) : undefined}
+              onStroke={growPick?.startsWith('brush') ? (path) => setGrowSeed({ kind: growPick, p: path[0], path }) : undefined}
               onPick={growPick ? (p) => {
                 setGrowSeed({ kind: growPick, p });
                 // The brush stays in hand for the next dab; a grower takes one click.
@@ -354,10 +444,29 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
           ) : (
             loading.status !== 'failed' && <div className="slice-placeholder" aria-hidden="true" />
           )}
+          </div>
+          {compare && currentFollowup && focusMm && prefs.window && (
+            <ComparePane
+              patientId={patient.id}
+              other={compare}
+              otherResult={analysis?.visits.find((v) => v.id === compare.id) ?? null}
+              current={currentFollowup}
+              plane={prefs.plane}
+              focusMm={focusMm}
+              onFocus={focusOn}
+              window={prefs.window}
+              onWindow={(w) => setPrefs((p) => ({ ...p, window: w }))}
+              showSegments={prefs.showSegments}
+              showViable={prefs.showViable}
+              opacity={prefs.opacity}
+              trackOf={trackIn(compare.id)}
+            />
+          )}
+          </div>
           {hint && <p className="viewer-hint" role="status" data-testid="viewer-hint">{hint}</p>}
           <p className="keys" data-testid="key-help">
             <kbd>↑</kbd>/<kbd>↓</kbd> or wheel: slice · <kbd>PgUp</kbd>/<kbd>PgDn</kbd>: 5 slices · <kbd>[</kbd>/<kbd>]</kbd>: previous/next visit ·
-            {' '}<kbd>O</kbd>: segment colours · drag: pan · <kbd>Ctrl</kbd>+wheel: zoom · right-drag: window · double-click: fit
+            {' '}<kbd>O</kbd>: segment colours ·{volumes?.viable ? <> <kbd>V</kbd>: viable tumour ·</> : null} drag: pan · <kbd>Ctrl</kbd>+wheel: zoom · right-drag: window · double-click: fit
           </p>
         </section>
         <aside className="visit-side" aria-label="Visit details">
@@ -370,6 +479,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             opacity={prefs.opacity}
             onOpacity={(opacity) => setPrefs((p) => ({ ...p, opacity }))}
           />
+          {volumes?.viable && <ViableLegend show={prefs.showViable} onShow={(showViable) => setPrefs((p) => ({ ...p, showViable }))} />}
           <LesionPanel
             lesions={result?.analysis.lesions ?? null}
             marks={marks}
@@ -381,9 +491,11 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             }}
             draft={draft}
             draftId={draftId}
-            onSaveDraft={(s) => void saveDraft(s)}
+            viable={viableColumn}
+            onSaveDraft={(s, v) => void saveDraft(s, v)}
             onCancelDraft={() => setDraft(null)}
             onShortAxis={setShortAxis}
+            onViable={setViable}
             onDelete={(id) => setConfirm({ kind: 'delete', id })}
             busy={busy}
           />
@@ -404,6 +516,8 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
             onStartBuilding={startBuilding}
             busy={busy}
             status={landmarkStatus}
+            proposed={proposed}
+            onConfirmProposal={() => { if (proposed) confirmProposal(proposed); }}
           />
           <GrowPanel
             patientId={patient.id}
@@ -413,7 +527,7 @@ function VisitScreen({ visitId, lesionId, prefs, setPrefs }: {
               setGrowPick(k);
               setHint(k === 'liver' ? 'Click inside plain liver tissue, away from vessels and lesions (Esc cancels).'
                 : k === 'lesion' ? 'Click in the middle of the lesion (Esc cancels).'
-                  : k ? `Click on any plane to ${k === 'brush-add' ? 'add' : 'erase'} a ball of the brush radius; each click is stored and can be undone (Esc ends).` : null);
+                  : k ? `Click or drag on any plane to ${k === 'brush-add' ? 'add' : 'erase'} balls of the brush radius; each click or stroke is stored as one change and can be undone (Esc ends).` : null);
             }}
             seed={growSeed}
             onAccepted={(text) => void edit(async () => text, { volumes: true })}

@@ -1,10 +1,12 @@
 import { badFile, badInput } from '../../src/errors.js';
-import { TABLE_NAMES, type AuditRecord, type StoreTables, type TableName, type VolumeRecord } from '../../src/model/records.js';
+import type { z } from 'zod';
+import { describeJsonValue } from '../../src/json-file.js';
+import { TABLE_NAMES, type AuditRecord, type SettingRecord, type StoreTables, type TableName, type VolumeRecord } from '../../src/model/records.js';
 import { VERSION } from '../../src/version.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../../src/volume/nifti-header.js';
 import { isGzip } from '../../src/volume/nifti-read.js';
 import { webInflate } from '../../src/volume/web-gzip.js';
-import { RECORD_SCHEMAS, backupIndex, primaryKey, type BackupIndex } from './backup-records.js';
+import { RECORD_SCHEMAS, backupIndex, expectedKey, primaryKey, type BackupIndex } from './backup-records.js';
 import type { FalciformDb } from './db.js';
 import { toExactJson } from './exact-json.js';
 import { removePatientRecords } from './patients.js';
@@ -130,10 +132,18 @@ export async function readBackup(bytes: Uint8Array, file: string): Promise<Backu
   if (index.schemaVersion > CURRENT_SCHEMA_VERSION) {
     throw badFile(file, `was made with store schema ${index.schemaVersion}, newer than this Falciform's (${CURRENT_SCHEMA_VERSION}); update Falciform to restore it`);
   }
+  if (!SCHEMA_VERSIONS.some((v) => v.version === index.schemaVersion)) {
+    throw badFile(file, `has an index whose field schemaVersion is ${index.schemaVersion}, a store schema Falciform never had`);
+  }
   const unknown = Object.keys(rawTables).filter((t) => !(TABLE_NAMES as readonly string[]).includes(t));
   if (unknown.length > 0) throw badFile(file, `holds table ${unknown[0]}, which this Falciform does not know`);
   const tables = Object.fromEntries(TABLE_NAMES.map((t) => [t, (rawTables[t] ?? []) as object[]])) as Record<TableName, object[]>;
-  for (const v of SCHEMA_VERSIONS) if (v.version > index.schemaVersion) v.upgradeBackup?.(tables);
+  try {
+    for (const v of SCHEMA_VERSIONS) if (v.version > index.schemaVersion) v.upgradeBackup?.(tables);
+  } catch {
+    // The upgrade reads records not yet checked; a broken one is named by the check below if it survives.
+    throw badFile(file, `has records of store schema ${index.schemaVersion} too damaged to bring up to date`);
+  }
 
   checkRecords(tables, index, file);
   const volumes: VolumeRecord[] = [];
@@ -149,21 +159,28 @@ export async function readBackup(bytes: Uint8Array, file: string): Promise<Backu
 }
 
 function checkRecords(tables: Record<TableName, object[]>, index: Omit<BackupIndex, 'tables'>, file: string): void {
+  // Patients come first in TABLE_NAMES: their records are checked before any other record's owner is looked up.
   const patientIds = new Set(tables.patients.map((p) => (p as { id: string }).id));
-  if (index.patientIds.length !== patientIds.size || index.patientIds.some((id) => !patientIds.has(id))) {
-    throw badFile(file, 'lists patients in its index that differ from the patient records it holds');
-  }
   if (index.scope === 'patients' && tables.settings.length > 0) throw badFile(file, 'holds settings in a backup of single patients');
   for (const name of TABLE_NAMES) {
     const keys = new Set<string>();
     tables[name].forEach((record, n) => {
-      const r = RECORD_SCHEMAS[name].safeParse(record);
+      let r: ReturnType<z.ZodType['safeParse']>;
+      try {
+        r = RECORD_SCHEMAS[name].safeParse(record);
+      } catch {
+        // Only a value nested thousands deep (which JSON.parse accepts) runs the check out of stack.
+        throw badFile(file, `${name} record ${n + 1}: holds a value nested too deeply to be a Falciform record`);
+      }
       if (!r.success) {
         const issue = r.error.issues[0];
-        throw badFile(file, `${name} record ${n + 1}: field ${issue.path.join('.') || '(record)'} ${issue.message}`);
+        const path = issue.code === 'unrecognized_keys' ? [...issue.path, issue.keys[0]] : issue.path;
+        throw badFile(file, `${recordName(name, record, n)}: field ${path.join('.') || '(record)'} ${issue.message}`);
       }
       const rec = record as Record<string, unknown>;
       const key = primaryKey(name, rec);
+      const expected = expectedKey(name, rec);
+      if (expected !== null && expected !== key) throw badFile(file, `${recordName(name, record, n)}: field key is ${describeJsonValue(key)} but its other fields make it ${describeJsonValue(expected)}`);
       if (keys.has(key)) throw badFile(file, `${name} record ${key} appears twice`);
       keys.add(key);
       const owner = rec.patientId;
@@ -174,7 +191,17 @@ function checkRecords(tables: Record<TableName, object[]>, index: Omit<BackupInd
         throw badFile(file, `${name} record ${key} belongs to no patient`);
       }
     });
+    if (name === 'patients' && (index.patientIds.length !== patientIds.size || index.patientIds.some((id) => !patientIds.has(id)))) {
+      throw badFile(file, 'lists patients in its index that differ from the patient records it holds');
+    }
   }
+}
+
+/** "settings record 2 (windowPresets)": the record's place, and its key when it has a readable one. */
+function recordName(table: TableName, record: unknown, n: number): string {
+  const r = (record ?? {}) as Record<string, unknown>;
+  const key = table === 'visits' || table === 'treatments' ? r.id : (r.key ?? r.id);
+  return `${table} record ${n + 1}${typeof key === 'string' && key.length <= 80 ? ` (${key})` : ''}`;
 }
 
 async function checkVolumeBytes(data: Uint8Array, r: Omit<VolumeRecord, 'bytes'>, file: string): Promise<void> {
@@ -219,10 +246,16 @@ export async function restoreBackup(db: FalciformDb, contents: BackupContents, o
         );
       }
       for (const id of present) await removePatientRecords(db, id);
+      // Corrections are keyed by their id alone: one taken by another stored patient is refused, never replaced.
+      const taken = (await db.overrides.bulkGet(contents.tables.overrides.map((o) => o.id))).find((o) => o !== undefined);
+      if (taken) {
+        throw badInput(`correction ${taken.id}`, `has the id of a stored correction of patient ${taken.patientId}; nothing was restored`);
+      }
       for (const name of TABLE_NAMES) {
         const rows = contents.tables[name] as object[];
-        // Trail entries and settings may already be here from an earlier restore of the same file.
-        if (name === 'audit' || name === 'settings') await db.table(name).bulkPut(rows);
+        if (name === 'audit') await db.audit.bulkAdd(await trailToAdd(db, contents.tables.audit));
+        // Settings come only in a whole-store backup, and replace the stored ones.
+        else if (name === 'settings') await db.settings.bulkPut(rows as SettingRecord[]);
         else await db.table(name).bulkAdd(rows);
       }
       const at = new Date().toISOString();
@@ -236,6 +269,30 @@ export async function restoreBackup(db: FalciformDb, contents: BackupContents, o
   } catch (e) {
     throw explainWriteFailure(e, opts.file ?? 'the backup', 'restored');
   }
+}
+
+/**
+ * The backup's trail entries as they may be added: one already stored unchanged (an earlier restore
+ * of the same file) is left as it is; one whose id is taken by a different entry (another patient's,
+ * or an edit made since) gets a fresh id at its own time, so no stored entry is ever replaced.
+ */
+async function trailToAdd(db: FalciformDb, entries: AuditRecord[]): Promise<AuditRecord[]> {
+  const stored = await db.audit.bulkGet(entries.map((a) => a.id));
+  const out: AuditRecord[] = [];
+  entries.forEach((entry, n) => {
+    const there = stored[n];
+    if (there === undefined) out.push(entry);
+    else if (canonical(there) !== canonical(entry)) out.push({ ...entry, id: trailId(Date.parse(entry.at)) });
+  });
+  return out;
+}
+
+/** JSON with object keys sorted, to compare records whatever order their fields were written in. */
+function canonical(value: unknown): string {
+  return JSON.stringify(value, (_k, v: unknown) =>
+    v !== null && typeof v === 'object' && !Array.isArray(v)
+      ? Object.fromEntries(Object.entries(v as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)))
+      : v);
 }
 
 /** A file name for a backup of these patients (or of everything) made today. */

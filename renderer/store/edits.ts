@@ -5,7 +5,7 @@ import {
 } from '../../src/model/records.js';
 import { recordBytes, visitStoredBytes } from '../../src/model/storage-size.js';
 import { roundTo } from '../../src/rounding.js';
-import { checkLandmarks, LANDMARK_NAMES, parseLandmarks, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks.js';
+import { checkLandmarks, LANDMARK_NAMES, OPTIONAL_LANDMARK, parseLandmarks, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks.js';
 import { markJson } from '../viewer/caliper.js';
 import type { FalciformDb } from './db.js';
 import { recordEdit } from './patients.js';
@@ -96,6 +96,29 @@ export async function saveMark(
   });
 }
 
+/**
+ * Sets or clears (null) a mark's viable (enhancing) diameter for mRECIST, to 0.1 mm, with its trail
+ * entry. The marks file's own rule decides what is allowed (src/lesions/marks.ts: a length ≥ 0, no
+ * longer than the mark's longest diameter); a refused value changes nothing.
+ */
+export async function saveMarkViable(db: FalciformDb, patientId: string, visitId: string, markId: string, viableAxialMm: number | null): Promise<void> {
+  await db.transaction('rw', db.visits, db.inputs, db.audit, async () => {
+    const visit = await visitOf(db, patientId, visitId);
+    const before = await db.inputs.get(inputKey(patientId, visitId, 'marks'));
+    const { file, marks } = rawMarks(before);
+    const old = marks.find((m) => m.id === markId);
+    if (!before || !old) throw badInput(`mark ${markId}`, `is not among visit ${visitId}'s marks`);
+    const next: Record<string, unknown> = { ...old };
+    if (viableAxialMm === null) delete next.viableAxialMm;
+    else next.viableAxialMm = roundTo(viableAxialMm, 1);
+    await writeMarks(db, visit, before, file, marks.map((m) => (m === old ? next : m)));
+    await recordEdit(db, {
+      patientId, entity: 'lesion', entityId: `${visitId}/${markId}`, field: 'viableAxialMm', action: 'update',
+      oldValue: (old.viableAxialMm ?? null) as JsonValue, newValue: (next.viableAxialMm ?? null) as JsonValue,
+    });
+  });
+}
+
 /** Removes one mark from the visit's marks file (the file stays, possibly with no marks). */
 export async function deleteMark(db: FalciformDb, patientId: string, visitId: string, markId: string): Promise<void> {
   await db.transaction('rw', db.visits, db.inputs, db.audit, async () => {
@@ -115,6 +138,8 @@ export async function deleteMark(db: FalciformDb, patientId: string, visitId: st
 function landmarksRecord(visit: VisitRecord, fileName: string, file: Record<string, unknown>, set: LandmarkSet): InputRecord {
   const points: Record<string, number[]> = {};
   for (const name of LANDMARK_NAMES) points[name] = set.points[name].map((x) => roundTo(x, 1));
+  const extra = set.points[OPTIONAL_LANDMARK];
+  if (extra) points[OPTIONAL_LANDMARK] = extra.map((x) => roundTo(x, 1));
   return {
     key: inputKey(visit.patientId, visit.id, 'landmarks'),
     patientId: visit.patientId,
@@ -156,11 +181,14 @@ export async function saveLandmarks(db: FalciformDb, patientId: string, visitId:
 }
 
 /**
- * Switches a visit with an imported segment map and a liver mask to a map built from landmarks:
- * stores the landmark set and removes the imported map (and its scheme), all in one transaction,
- * with trail entries for both. A backup made before keeps the imported map.
+ * Gives a visit with a liver mask and no landmark set a map built from landmarks: stores the set and
+ * removes an imported map (and its scheme) if there is one, all in one transaction, with trail
+ * entries for both; `origin` says where the points came from (a confirmed proposal, say). A backup
+ * made before keeps the imported map.
  */
-export async function buildMapFromLandmarks(db: FalciformDb, patientId: string, visitId: string, set: LandmarkSet): Promise<void> {
+export async function buildMapFromLandmarks(
+  db: FalciformDb, patientId: string, visitId: string, set: LandmarkSet, origin?: { [key: string]: JsonValue },
+): Promise<void> {
   await db.transaction('rw', [db.visits, db.inputs, db.volumes, db.audit], async () => {
     const visit = await visitOf(db, patientId, visitId);
     if (!visit.volumes.includes('liver')) {
@@ -193,7 +221,7 @@ export async function buildMapFromLandmarks(db: FalciformDb, patientId: string, 
     }
     await recordEdit(db, {
       patientId, entity: 'visit', entityId: visitId, field: 'landmarks', action: 'create',
-      oldValue: null, newValue: JSON.parse(after.text) as JsonValue,
+      oldValue: null, newValue: { ...(JSON.parse(after.text) as { [key: string]: JsonValue }), ...(origin ? { origin } : {}) },
     });
   });
 }

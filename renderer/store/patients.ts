@@ -2,6 +2,7 @@ import { badInput } from '../../src/errors.js';
 import {
   DEFAULT_SETTINGS, type AuditRecord, type JsonValue, type PatientRecord,
 } from '../../src/model/records.js';
+import { SETTING_SCHEMAS } from './backup-records.js';
 import type { FalciformDb } from './db.js';
 import { trailId } from './record-helpers.js';
 
@@ -110,7 +111,9 @@ export type SettingKey = keyof typeof DEFAULT_SETTINGS;
 
 export async function getSetting<K extends SettingKey>(db: FalciformDb, key: K): Promise<(typeof DEFAULT_SETTINGS)[K]> {
   const row = await db.settings.get(key);
-  return row ? (row.value as unknown as (typeof DEFAULT_SETTINGS)[K]) : DEFAULT_SETTINGS[key];
+  // A value the app cannot use (written before restores were checked) reads as the default rather than breaking a screen.
+  const parsed = row ? SETTING_SCHEMAS[key].safeParse(row.value) : undefined;
+  return parsed?.success ? parsed.data : DEFAULT_SETTINGS[key];
 }
 
 export async function setSetting<K extends SettingKey>(db: FalciformDb, key: K, value: (typeof DEFAULT_SETTINGS)[K]): Promise<void> {

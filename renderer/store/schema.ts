@@ -1,5 +1,6 @@
 import type { Transaction } from 'dexie';
-import type { InputRecord, VisitRecord, VolumeRecord } from '../../src/model/records.js';
+import { currentTrackRef } from '../../src/followup/ids.js';
+import type { InputRecord, OverrideRecord, PatientRecord, TrackRecord, VisitRecord, VolumeRecord } from '../../src/model/records.js';
 import { recordBytes, visitStoredBytes } from '../../src/model/storage-size.js';
 
 /**
@@ -65,6 +66,48 @@ export const SCHEMA_VERSIONS: readonly SchemaVersion[] = [
       }
     },
   },
+  {
+    version: 3,
+    why:
+      'lesion tracks are lettered A, B, … instead of numbered T1, T2, … (a "T" number reads as "target" or an MR ' +
+      'sequence): stored targets, corrections and reader calls that name a track by its old number are rewritten',
+    stores: {},
+    async upgrade(tx) {
+      await tx.table<PatientRecord>('patients').toCollection().modify((p) => { letterPatient(p); });
+      await tx.table<OverrideRecord>('overrides').toCollection().modify((o) => { letterOverride(o); });
+      await tx.table<VisitRecord>('visits').toCollection().modify((v) => { letterVisit(v); });
+      // Track records are keyed by their id, so a renamed one is a new key.
+      const tracks = tx.table<TrackRecord, string>('tracks');
+      const old = await tracks.toArray();
+      for (const t of old) {
+        const id = currentTrackRef(t.id);
+        if (id === t.id) continue;
+        await tracks.delete(t.key);
+        await tracks.put({ ...t, id, key: `${t.patientId}/${id}` });
+      }
+    },
+    upgradeBackup(tables) {
+      for (const p of (tables.patients ?? []) as PatientRecord[]) letterPatient(p);
+      for (const o of (tables.overrides ?? []) as OverrideRecord[]) letterOverride(o);
+      for (const v of (tables.visits ?? []) as VisitRecord[]) letterVisit(v);
+      for (const t of (tables.tracks ?? []) as TrackRecord[]) {
+        t.id = currentTrackRef(t.id);
+        t.key = `${t.patientId}/${t.id}`;
+      }
+    },
+  },
 ];
+
+// Version 3: a track named by its old number ("T3") is renamed to its letter ("C"); "v1:L2" is kept.
+function letterPatient(p: PatientRecord): void {
+  if (p.targets) p.targets = p.targets.map(currentTrackRef);
+}
+function letterOverride(o: OverrideRecord): void {
+  if (o.track !== undefined) o.track = currentTrackRef(o.track);
+}
+function letterVisit(v: VisitRecord): void {
+  const gone = v.readerCalls?.confirmedGone;
+  if (v.readerCalls && gone) v.readerCalls = { ...v.readerCalls, confirmedGone: gone.map(currentTrackRef) };
+}
 
 export const CURRENT_SCHEMA_VERSION = SCHEMA_VERSIONS[SCHEMA_VERSIONS.length - 1].version;

@@ -1,4 +1,5 @@
 import { badInput } from '../../src/errors.js';
+import { isTrackId } from '../../src/followup/ids.js';
 import { checkTargetCount } from '../../src/followup/recist.js';
 import type { JsonValue, OverrideRecord, PatientRecord } from '../../src/model/records.js';
 import type { FalciformDb } from './db.js';
@@ -19,11 +20,11 @@ import { trailId } from './record-helpers.js';
 export interface LesionAt {
   visit: string;
   lesion: string;
-  /** The track holding the lesion now, e.g. "T3"; null if none. */
+  /** The track holding the lesion now, e.g. "C"; null if none. */
   currentTrack: string | null;
 }
 
-/** A track as an override names it (`ref`) and as the reader sees it (`label`, e.g. "T1"). */
+/** A track as an override names it (`ref`) and as the reader sees it (`label`, e.g. "A"). */
 export interface TrackName {
   ref: string;
   label: string;
@@ -75,7 +76,7 @@ export async function removeOverride(db: FalciformDb, patientId: string, overrid
 export async function setTargets(db: FalciformDb, patientId: string, targets: readonly string[]): Promise<PatientRecord> {
   // The same rule the command line applies to a manifest's targets.
   checkTargetCount(targets);
-  for (const t of targets) if (!/^T\d+$/.test(t)) throw badInput('targets', `${t} is not a lesion track`);
+  for (const t of targets) if (!isTrackId(t)) throw badInput('targets', `${t} is not a lesion track id (A, B, …)`);
   return updatePatient(db, patientId, { targets: targets.length > 0 ? [...targets] : undefined });
 }
 

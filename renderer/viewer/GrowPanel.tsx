@@ -25,8 +25,8 @@ interface Props {
   /** What the next click on the image seeds, if anything. */
   picking: GrowKind | null;
   onPicking(kind: GrowKind | null): void;
-  /** The point the reader clicked for `picking` (a new object per click). */
-  seed: { kind: GrowKind; p: Vec3 } | null;
+  /** The point the reader clicked for `picking` (a new object per click); a brush stroke's whole path. */
+  seed: { kind: GrowKind; p: Vec3; path?: Vec3[] } | null;
   /** After a grown mask is stored: the images and the analysis need reloading. */
   onAccepted(text: string): void;
   busy: boolean;
@@ -61,7 +61,7 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
       ? { kind: 'liver', patientId, visitId, seedMm: seed.p, params: { openingMm, closingMm } }
       : seed.kind === 'lesion'
         ? { kind: 'lesion', patientId, visitId, seedMm: seed.p, params: { maxRadiusMm } }
-        : { kind: 'brush', patientId, visitId, seedMm: seed.p, role: brushRole, radiusMm: brushMm, erase: seed.kind === 'brush-erase' };
+        : { kind: 'brush', patientId, visitId, pathMm: seed.path ?? [seed.p], role: brushRole, radiusMm: brushMm, erase: seed.kind === 'brush-erase' };
     runJob<GrowResult>(new Worker(new URL('../workers/grow.worker.ts', import.meta.url), { type: 'module' }), request, {
       crashed: 'growing stopped unexpectedly',
       signal: stop.signal,
@@ -82,9 +82,13 @@ export function GrowPanel({ patientId, visitId, picking, onPicking, seed, onAcce
   const storeBrush = async (r: BrushedMask) => {
     setSaving(true);
     try {
-      const what = `${r.erase ? 'erased' : 'added'} a ${r.radiusMm} mm ball ${r.erase ? 'from' : 'to'} the ${r.role === 'liver' ? 'liver' : 'lesion'} mask (${r.changed} voxels)`;
+      const stroke = r.pathMm.length > 1 ? `stroke of ${r.dabs} ${r.radiusMm} mm balls` : `${r.radiusMm} mm ball`;
+      const what = `${r.erase ? 'erased' : 'added'} a ${stroke} ${r.erase ? 'from' : 'to'} the ${r.role === 'liver' ? 'liver' : 'lesion'} mask (${r.changed} voxels)`;
+      // One entry per click or stroke, with its path (0.1 mm), so the trail can redraw it.
       const before = await saveGrownMask(appDb(), patientId, visitId, r.role, r, {
-        brush: r.erase ? 'erase' : 'add', centreMm: [...r.seedMm], radiusMm: r.radiusMm, voxels: r.changed,
+        brush: r.erase ? 'erase' : 'add', centreMm: r.pathMm[0].map((x) => Math.round(x * 10) / 10),
+        ...(r.pathMm.length > 1 ? { pathMm: r.pathMm.map((p) => p.map((x) => Math.round(x * 10) / 10)), dabs: r.dabs } : {}),
+        radiusMm: r.radiusMm, voxels: r.changed,
       });
       setUndo((u) => [...u, { role: r.role, before, what }]);
       onAccepted(`Brush: ${what}; the analysis is updating.`);

@@ -13,15 +13,19 @@ interface Props {
   onSelect(id: string): void;
   draft: DraftCaliper | null;
   draftId: string;
-  onSaveDraft(shortAxisMm: number): void;
+  /** Viable (enhancing) diameter per lesion id when the visit is read under mRECIST or gives viable measures; null hides the column. */
+  viable: Record<string, number | null> | null;
+  onSaveDraft(shortAxisMm: number, viableAxialMm?: number): void;
   onCancelDraft(): void;
   onShortAxis(id: string, shortAxisMm: number): void;
+  /** Sets (a length) or clears (null) a mark's viable diameter. */
+  onViable(id: string, viableAxialMm: number | null): void;
   onDelete(id: string): void;
   busy: boolean;
 }
 
 /** The visit's lesions as analysed, and the editor for a new or chosen manual mark. */
-export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId, onSaveDraft, onCancelDraft, onShortAxis, onDelete, busy }: Props) {
+export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId, viable, onSaveDraft, onCancelDraft, onShortAxis, onViable, onDelete, busy }: Props) {
   const chosenMark = marks.find((m) => m.id === selected) ?? null;
   return (
     <section className="side-section" aria-labelledby="lesions-title">
@@ -29,11 +33,13 @@ export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId
       {lesions && lesions.length === 0 && <p className="side-note">No lesions at this visit.</p>}
       {lesions && lesions.length > 0 && (
         <table className="data-table compact" data-testid="lesion-table">
-          <caption>Diameters and margin in mm; margin is the distance to the nearest other segment{lesions.some((l) => l.marginAlert) ? ', highlighted when below the set margin' : ''}.</caption>
+          <caption>Diameters and margin in mm; margin is the gap from the lesion&apos;s edge to the border surface of the nearest other segment (0 when touching){lesions.some((l) => l.marginAlert) ? ', highlighted when at or within the set margin' : ''}.</caption>
           <thead>
             <tr>
               <th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col" className="num" title="Longest axial diameter, mm">Longest</th>
-              <th scope="col" className="num" title="Short axis, mm">Short</th><th scope="col" className="num" title="Distance to the nearest other segment, mm">Margin</th>
+              <th scope="col" className="num" title="Short axis, mm">Short</th>
+              {viable && <th scope="col" className="num" title="Longest diameter of the viable (enhancing) tumour, not crossing necrosis (mRECIST), mm">Viable</th>}
+              <th scope="col" className="num" title="Distance to the nearest other segment, mm">Margin</th>
             </tr>
           </thead>
           <tbody>
@@ -53,6 +59,7 @@ export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId
                 <td data-testid="lesion-segment">{l.segment ?? 'outside'}{l.segmentWarning ? ' *' : ''}</td>
                 <td className="num">{oneDecimal(l.longestAxialMm)}</td>
                 <td className="num">{oneDecimal(l.shortAxisMm)}</td>
+                {viable && <td className="num" data-testid="lesion-viable">{oneDecimal(viable[l.id])}</td>}
                 <td className={`num${l.marginAlert ? ' alert-cell' : ''}`} data-testid="lesion-margin">
                   {oneDecimal(l.marginMm)}{l.marginAlert ? ` → ${l.nearestOtherSegment}` : ''}
                 </td>
@@ -62,14 +69,41 @@ export function LesionPanel({ lesions, marks, selected, onSelect, draft, draftId
         </table>
       )}
       {draft && <DraftEditor draft={draft} id={draftId} onSave={onSaveDraft} onCancel={onCancelDraft} busy={busy} />}
-      {!draft && chosenMark && <MarkEditor key={chosenMark.id + chosenMark.shortAxisMm} mark={chosenMark} onShortAxis={onShortAxis} onDelete={onDelete} busy={busy} />}
+      {!draft && chosenMark && (
+        <MarkEditor key={`${chosenMark.id} ${chosenMark.shortAxisMm} ${chosenMark.viableAxialMm}`} mark={chosenMark} onShortAxis={onShortAxis} onViable={onViable} onDelete={onDelete} busy={busy} />
+      )}
     </section>
   );
 }
 
-function DraftEditor({ draft, id, onSave, onCancel, busy }: { draft: DraftCaliper; id: string; onSave(s: number): void; onCancel(): void; busy: boolean }) {
+/**
+ * A typed viable diameter: empty is none; otherwise a length from 0 to the longest diameter, the rule
+ * of the marks file (src/lesions/marks.ts), which the store applies again.
+ */
+function viableTyped(typed: string, longestMm: number): { value: number | null; valid: boolean } {
+  if (typed.trim() === '') return { value: null, valid: true };
+  const value = Number(typed);
+  return { value, valid: Number.isFinite(value) && value >= 0 && value <= longestMm + 0.05 };
+}
+
+function ViableField({ typed, onTyped, longestMm, testId }: { typed: string; onTyped(s: string): void; longestMm: number; testId: string }) {
+  const { valid } = viableTyped(typed, longestMm);
+  return (
+    <>
+      <label className="inline" title="Longest diameter of the enhancing (viable) tumour, not crossing necrosis, for mRECIST; leave empty when not assessed">
+        Viable (enhancing)
+        <input type="number" min={0} step={0.1} max={longestMm.toFixed(1)} value={typed} onChange={(e) => onTyped(e.target.value)} data-testid={testId} /> mm
+      </label>
+      {!valid && <p className="field-problem">The viable diameter must be between 0 and {longestMm.toFixed(1)} mm (the longest diameter), or empty.</p>}
+    </>
+  );
+}
+
+function DraftEditor({ draft, id, onSave, onCancel, busy }: { draft: DraftCaliper; id: string; onSave(s: number, viable?: number): void; onCancel(): void; busy: boolean }) {
   const longest = distance(draft.a, draft.b);
   const [typed, setTyped] = useState('');
+  const [viableText, setViableText] = useState('');
+  const viable = viableTyped(viableText, longest);
   useEffect(() => setTyped(draft.shortMm === null ? '' : Math.min(draft.shortMm, longest).toFixed(1)), [draft.shortMm, longest]);
   const value = Number(typed);
   const valid = typed.trim() !== '' && Number.isFinite(value) && value >= 0 && value <= longest + 0.05;
@@ -83,16 +117,22 @@ function DraftEditor({ draft, id, onSave, onCancel, busy }: { draft: DraftCalipe
       </label>
       <p className="side-note">{draft.shortMm === null ? 'Drag across the lesion at right angles to measure the short axis, or type it.' : 'Drag again to remeasure.'}</p>
       {typed.trim() !== '' && !valid && <p className="field-problem">The short axis must be between 0 and {longest.toFixed(1)} mm.</p>}
+      <ViableField typed={viableText} onTyped={setViableText} longestMm={longest} testId="draft-viable" />
       <div className="editor-actions">
         <button type="button" onClick={onCancel}>Discard</button>
-        <button type="button" className="primary" disabled={!valid || busy} onClick={() => onSave(value)} data-testid="save-mark">Save lesion</button>
+        <button type="button" className="primary" disabled={!valid || !viable.valid || busy} onClick={() => onSave(value, viable.value ?? undefined)} data-testid="save-mark">Save lesion</button>
       </div>
     </div>
   );
 }
 
-function MarkEditor({ mark, onShortAxis, onDelete, busy }: { mark: Mark; onShortAxis(id: string, s: number): void; onDelete(id: string): void; busy: boolean }) {
+function MarkEditor({ mark, onShortAxis, onViable, onDelete, busy }: {
+  mark: Mark; onShortAxis(id: string, s: number): void; onViable(id: string, v: number | null): void; onDelete(id: string): void; busy: boolean;
+}) {
   const [typed, setTyped] = useState(mark.shortAxisMm.toFixed(1));
+  const [viableText, setViableText] = useState(mark.viableAxialMm === undefined ? '' : mark.viableAxialMm.toFixed(1));
+  const viable = viableTyped(viableText, mark.longestAxialMm);
+  const viableChanged = viable.value === null ? mark.viableAxialMm !== undefined : mark.viableAxialMm === undefined || Math.abs(viable.value - mark.viableAxialMm) >= 0.05;
   const value = Number(typed);
   const changed = Number.isFinite(value) && Math.abs(value - mark.shortAxisMm) >= 0.05;
   const valid = typed.trim() !== '' && Number.isFinite(value) && value >= 0 && value <= mark.longestAxialMm + 0.05;
@@ -106,8 +146,14 @@ function MarkEditor({ mark, onShortAxis, onDelete, busy }: { mark: Mark; onShort
       </label>
       {!valid && <p className="field-problem">The short axis must be between 0 and {mark.longestAxialMm.toFixed(1)} mm.</p>}
       <div className="editor-actions">
-        <button type="button" className="quiet-danger" onClick={() => onDelete(mark.id)} disabled={busy} data-testid="delete-mark">Delete mark</button>
         <button type="button" className="primary" disabled={!valid || !changed || busy} onClick={() => onShortAxis(mark.id, value)}>Save short axis</button>
+      </div>
+      <ViableField typed={viableText} onTyped={setViableText} longestMm={mark.longestAxialMm} testId="mark-viable" />
+      <div className="editor-actions">
+        <button type="button" className="quiet-danger" onClick={() => onDelete(mark.id)} disabled={busy} data-testid="delete-mark">Delete mark</button>
+        <button type="button" className="primary" disabled={!viable.valid || !viableChanged || busy} onClick={() => onViable(mark.id, viable.value)} data-testid="save-viable">
+          {viable.value === null && mark.viableAxialMm !== undefined ? 'Clear viable diameter' : 'Save viable diameter'}
+        </button>
       </div>
     </div>
   );

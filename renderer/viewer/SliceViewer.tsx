@@ -5,7 +5,7 @@ import { distance } from '../../src/geometry/vec3';
 import type { Mark } from '../../src/lesions/marks';
 import { LANDMARK_NAMES, type LandmarkName, type LandmarkSet } from '../../src/segments/landmarks';
 import { shortAxisEnds, shortAxisOfDrag } from './caliper';
-import { composeSlice, lesionOutlines, type LesionOutline } from './compose';
+import { composeSlice, lesionOutlines, maskRuns, type LesionOutline } from './compose';
 import { LANDMARK_LABELS } from './landmark-qc';
 import { segmentOfCode } from './palette';
 import { displayMmOfWorld, extractSlice, PLANE_LABELS, sliceStepTowardsPlus, voxelIndexOfDisplay, worldOfDisplayMm, type SliceLayout } from './slice';
@@ -31,6 +31,8 @@ interface Props {
   onWindow(wl: WindowLevel): void;
   showSegments: boolean;
   opacity: number;
+  /** Draw the viable-tumour mask (hatched, dashed outline) when the visit has one. */
+  showViable: boolean;
   tool: Tool;
   marks: Mark[];
   selected: string | null;
@@ -41,11 +43,17 @@ interface Props {
   landmarks: LandmarkSet | null;
   landmarkNotes: Partial<Record<LandmarkName, string[]>>;
   onMoveLandmark(name: LandmarkName, p: Vec3): void;
+  /** Landmarks still only proposed (carried from an earlier visit, not yet confirmed): drawn apart. */
+  proposed?: readonly LandmarkName[];
   /** A landmark waiting to be put where the reader clicks next. */
   placing: LandmarkName | null;
   onHint(text: string | null): void;
   /** When given, a click picks a world point (a seed for growing) instead of the tool's action. */
   onPick?(p: Vec3): void;
+  /** When given, a drag paints a stroke: its world points, from press to release, go here as one. */
+  onStroke?(pathMm: Vec3[]): void;
+  /** The lesion track of a lesion id, shown before the id so two visits side by side label alike. */
+  trackOf?(lesionId: string): string | undefined;
 }
 
 const ORIENTATION: Record<SliceLayout['plane'], { left: string; right: string; top: string; bottom: string }> = {
@@ -54,6 +62,24 @@ const ORIENTATION: Record<SliceLayout['plane'], { left: string; right: string; t
   sagittal: { left: 'A', right: 'P', top: 'S', bottom: 'I' },
 };
 
+/** The viable overlay's hatching: one white diagonal per 6 px tile, made once. */
+let hatchTile: HTMLCanvasElement | null = null;
+function hatch(): HTMLCanvasElement {
+  if (hatchTile) return hatchTile;
+  hatchTile = document.createElement('canvas');
+  hatchTile.width = 6;
+  hatchTile.height = 6;
+  const g = hatchTile.getContext('2d')!;
+  g.strokeStyle = 'rgba(255,255,255,0.85)';
+  g.lineWidth = 1.5;
+  g.beginPath();
+  g.moveTo(-1, 7); g.lineTo(7, -1);
+  g.moveTo(5, 7); g.lineTo(7, 5);
+  g.moveTo(-1, 1); g.lineTo(1, -1);
+  g.stroke();
+  return hatchTile;
+}
+
 const fmt = (x: number) => (Math.abs(x) < 0.05 ? '0.0' : x.toFixed(1));
 
 type Drag =
@@ -61,7 +87,8 @@ type Drag =
   | { kind: 'window'; x: number; y: number; start: WindowLevel }
   | { kind: 'caliper'; from: Vec3; to: Vec3; short: boolean }
   | { kind: 'landmark'; name: LandmarkName; xMm: number; yMm: number; slice: number }
-  | { kind: 'mark-end'; id: string; end: 0 | 1; xMm: number; yMm: number; slice: number };
+  | { kind: 'mark-end'; id: string; end: 0 | 1; xMm: number; yMm: number; slice: number }
+  | { kind: 'stroke'; points: Vec3[] };
 
 interface Readout {
   world: Vec3;
@@ -100,6 +127,9 @@ export function SliceViewer(props: Props) {
       codes: new Uint8Array(n),
       labels: new Uint16Array(n),
       outlines: [] as LesionOutline[],
+      viable: new Uint8Array(n),
+      viableRuns: [] as number[],
+      viableEdges: [] as number[],
     };
   }, [layout]);
   const widthMm = layout.width * layout.colMm;
@@ -139,6 +169,14 @@ export function SliceViewer(props: Props) {
       extractSlice(volumes.lesions.labels, volumes.dims, layout, slice, scratch.labels);
       scratch.outlines = lesionOutlines(scratch.labels, width, height);
     } else scratch.outlines = [];
+    if (volumes.viable) {
+      extractSlice(volumes.viable, volumes.dims, layout, slice, scratch.viable);
+      scratch.viableRuns = maskRuns(scratch.viable, width, height);
+      scratch.viableEdges = lesionOutlines(scratch.viable, width, height)[0]?.edges ?? [];
+    } else {
+      scratch.viableRuns = [];
+      scratch.viableEdges = [];
+    }
     imageVersion.current++;
     if (box.current) box.current.dataset.image = String(imageVersion.current);
   }, [volumes, layout, slice, props.window, props.showSegments, props.opacity, scratch]);
@@ -170,6 +208,14 @@ export function SliceViewer(props: Props) {
 
     const sx = layout.colMm * view.zoom, sy = layout.rowMm * view.zoom;
     const ids = volumes.lesions?.ids ?? [];
+    // What the labels read, also kept on the box for checking: "T2 · L1" where the lesion is tracked.
+    const shown: string[] = [];
+    const named = (id: string) => {
+      const track = props.trackOf?.(id.split(' ')[0]);
+      const text = track ? `${track} · ${id}` : id;
+      shown.push(text);
+      return text;
+    };
     const label = (text: string, x: number, y: number, bold = false) => {
       g.font = `${bold ? '600 ' : ''}12px system-ui, sans-serif`;
       g.lineWidth = 3;
@@ -178,6 +224,30 @@ export function SliceViewer(props: Props) {
       g.fillStyle = '#ffffff';
       g.fillText(text, x, y);
     };
+    if (props.showViable && scratch.viableRuns.length > 0) {
+      // Viable tumour: white hatching over its voxels and a dashed outline, told from the solid lesion
+      // outlines and the segment colours by pattern rather than by colour.
+      const runs = scratch.viableRuns;
+      g.beginPath();
+      for (let k = 0; k < runs.length; k += 3) g.rect(view.panX + runs[k + 1] * sx, view.panY + runs[k] * sy, (runs[k + 2] - runs[k + 1]) * sx, sy);
+      g.fillStyle = g.createPattern(hatch(), 'repeat') ?? 'rgba(255,255,255,0.3)';
+      g.fill();
+      const e = scratch.viableEdges;
+      g.beginPath();
+      for (let k = 0; k < e.length; k += 4) {
+        g.moveTo(view.panX + e[k] * sx, view.panY + e[k + 1] * sy);
+        g.lineTo(view.panX + e[k + 2] * sx, view.panY + e[k + 3] * sy);
+      }
+      g.setLineDash([]);
+      g.lineWidth = 3;
+      g.strokeStyle = 'rgba(0,0,0,0.7)';
+      g.stroke();
+      g.setLineDash([4, 3]);
+      g.lineWidth = 1.5;
+      g.strokeStyle = '#ffffff';
+      g.stroke();
+      g.setLineDash([]);
+    }
     for (const o of scratch.outlines) {
       const id = ids[o.label - 1] ?? `?${o.label}`;
       const chosen = id === props.selected;
@@ -189,7 +259,7 @@ export function SliceViewer(props: Props) {
       g.lineWidth = chosen ? 2.5 : 1.25;
       g.strokeStyle = chosen ? '#ffffff' : 'rgba(255,255,255,0.85)';
       g.stroke();
-      label(id, view.panX + o.anchor.col * sx, view.panY + o.anchor.row * sy - 4, chosen);
+      label(named(id), view.panX + o.anchor.col * sx, view.panY + o.anchor.row * sy - 4, chosen);
     }
 
     const line = (p: Vec3, q: Vec3, width: number, dash: number[] = []) => {
@@ -222,9 +292,15 @@ export function SliceViewer(props: Props) {
         g.lineWidth = 1.5; g.strokeStyle = '#ffffff'; g.stroke();
       }
       const tip = screenOf(ends ? ends[1] : m.centreMm);
-      if (tip) label(m.id, tip.x + 6, tip.y - 6, chosen);
+      if (tip) label(named(m.id), tip.x + 6, tip.y - 6, chosen);
     };
     for (const m of props.marks) drawMark(m, m.id === props.selected);
+    if (drag?.kind === 'stroke' && drag.points.length > 1) {
+      g.beginPath();
+      drag.points.forEach((p, n) => { const q = screenOf(p); if (q) { if (n === 0) g.moveTo(q.x, q.y); else g.lineTo(q.x, q.y); } });
+      g.lineWidth = 2; g.strokeStyle = '#ffd54a'; g.setLineDash([]); g.stroke();
+    }
+    if (box.current) box.current.dataset.labels = shown.join('|');
 
     const caliper = drag?.kind === 'caliper' && !drag.short ? { a: drag.from, b: drag.to } : props.draft;
     if (caliper) {
@@ -331,6 +407,11 @@ export function SliceViewer(props: Props) {
       if (p) props.onMoveLandmark(props.placing, p);
       return;
     }
+    if (props.onStroke) {
+      const p = worldAt(x, y);
+      if (p) setDrag({ kind: 'stroke', points: [p] });
+      return;
+    }
     if (props.onPick) {
       const p = worldAt(x, y);
       if (p) props.onPick(p);
@@ -363,6 +444,10 @@ export function SliceViewer(props: Props) {
     } else if (drag.kind === 'caliper') {
       const p = worldAt(x, y);
       if (p) setDrag({ ...drag, to: p });
+    } else if (drag.kind === 'stroke') {
+      // Every pointer event is kept; the gaps between them are filled with dabs when painted.
+      const p = worldAt(x, y);
+      if (p) setDrag({ kind: 'stroke', points: [...drag.points, p] });
     } else {
       const [xMm, yMm] = toDisplayMm(view, x, y);
       setDrag({ ...drag, xMm, yMm });
@@ -386,6 +471,8 @@ export function SliceViewer(props: Props) {
       } else if (props.draft) {
         props.onDraft({ ...props.draft, shortMm: shortAxisOfDrag(props.draft.a, props.draft.b, d.from, d.to) });
       }
+    } else if (d.kind === 'stroke') {
+      props.onStroke?.(d.points);
     } else if (d.kind === 'landmark') {
       props.onMoveLandmark(d.name, worldOfDisplayMm(layout, volumes.affine, d.xMm, d.yMm, d.slice));
     } else if (d.kind === 'mark-end') {
@@ -410,18 +497,19 @@ export function SliceViewer(props: Props) {
       const held = drag?.kind === 'landmark' && drag.name === name ? drag : null;
       const [x, y] = toScreen(view, held ? held.xMm : d.xMm, held ? held.yMm : d.yMm);
       const notes = props.landmarkNotes[name] ?? [];
+      const proposed = props.proposed?.includes(name) ?? false;
       handles.push(
-        <div key={name} className={`landmark-pin${notes.length ? ' has-notes' : ''}`} style={{ left: x, top: y }}>
+        <div key={name} className={`landmark-pin${notes.length ? ' has-notes' : ''}${proposed ? ' proposed' : ''}`} style={{ left: x, top: y }} data-proposed={proposed || undefined}>
           <button
             type="button"
             className="handle landmark-handle"
             data-testid="landmark-handle"
             data-landmark={name}
-            aria-label={`${LANDMARK_LABELS[name].full}: drag to move`}
-            title={`${LANDMARK_LABELS[name].full} (${p.map(fmt).join(', ')} mm)`}
+            aria-label={`${LANDMARK_LABELS[name].full}${proposed ? ', proposed' : ''}: drag to move`}
+            title={`${LANDMARK_LABELS[name].full}${proposed ? ', proposed from an earlier visit' : ''} (${p.map(fmt).join(', ')} mm)`}
             onPointerDown={(e) => grab(e, { kind: 'landmark', name, xMm: d.xMm, yMm: d.yMm, slice: d.slice })}
           />
-          <span className="landmark-tag">{LANDMARK_LABELS[name].short}</span>
+          <span className="landmark-tag">{LANDMARK_LABELS[name].short}{proposed ? ' · proposed' : ''}</span>
           {notes.length > 0 && (
             <span className="landmark-note" data-testid="landmark-note-on-image" role="note">{notes.join(' ')}</span>
           )}
@@ -469,7 +557,7 @@ export function SliceViewer(props: Props) {
     <div className="slice-viewer">
       <div
         ref={box}
-        className={`slice-box tool-${props.placing || props.onPick ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
+        className={`slice-box tool-${props.placing || props.onPick || props.onStroke ? 'place' : tool}${drag?.kind === 'pan' ? ' panning' : ''}`}
         tabIndex={0}
         aria-label={`${PLANE_LABELS[layout.plane]} image, slice ${slice + 1} of ${layout.depth}. Arrow keys or wheel change the slice.`}
         data-testid="slice-viewer"

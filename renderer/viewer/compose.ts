@@ -84,3 +84,21 @@ export function lesionOutlines(labels: NumberArray, width: number, height: numbe
   }
   return [...byLabel.values()];
 }
+
+/** Runs of set pixels in a slice of a 0/1 mask, row by row: row, first column, one past the last. */
+export function maskRuns(mask: NumberArray, width: number, height: number): number[] {
+  const runs: number[] = [];
+  for (let r = 0, n = 0; r < height; r++) {
+    let start = -1;
+    for (let c = 0; c < width; c++, n++) {
+      if (mask[n] !== 0) {
+        if (start < 0) start = c;
+      } else if (start >= 0) {
+        runs.push(r, start, c);
+        start = -1;
+      }
+    }
+    if (start >= 0) runs.push(r, start, width);
+  }
+  return runs;
+}

@@ -6,7 +6,8 @@ import type { LiverParams } from '../../src/image/grow-liver';
 export type GrowRequest =
   | { kind: 'liver'; patientId: string; visitId: string; seedMm: Vec3; params: Partial<LiverParams> }
   | { kind: 'lesion'; patientId: string; visitId: string; seedMm: Vec3; params: Partial<LesionParams> }
-  | { kind: 'brush'; patientId: string; visitId: string; seedMm: Vec3; role: 'liver' | 'lesions'; radiusMm: number; erase: boolean };
+  /** One click (a path of one point) or one dragged stroke, painted as one change. */
+  | { kind: 'brush'; patientId: string; visitId: string; pathMm: Vec3[]; role: 'liver' | 'lesions'; radiusMm: number; erase: boolean };
 
 export interface GrownLiver {
   kind: 'liver';
@@ -41,12 +42,14 @@ export interface GrownLesion {
   affine: number[];
 }
 
-/** A brush dab on the stored liver or lesion mask, as .nii.gz bytes on that mask's grid. */
+/** A brush dab or stroke on the stored liver or lesion mask, as .nii.gz bytes on that mask's grid. */
 export interface BrushedMask {
   kind: 'brush';
   role: 'liver' | 'lesions';
   erase: boolean;
-  seedMm: Vec3;
+  pathMm: Vec3[];
+  /** Balls painted along the path (`strokeDabs`). */
+  dabs: number;
   radiusMm: number;
   changed: number;
   bytes: Uint8Array;

@@ -2,7 +2,7 @@
 // Grows a liver mask from a seed, or one lesion from a click, on a stored visit's scan, off the
 // window's thread, with the core's growers (the same as `falciform liver` and `falciform lesion`).
 // The result comes back as .nii.gz bytes on the scan's grid, so accepting it only stores them.
-import { paintBall } from '../../src/image/brush';
+import { paintBalls, strokeDabs } from '../../src/image/brush';
 import { growLesion } from '../../src/image/grow-lesion';
 import { growLiver } from '../../src/image/grow-liver';
 import { visitSegmentMap } from '../../src/patient/visit-map';
@@ -24,14 +24,15 @@ async function grow(req: GrowRequest, progress: (done: number, total: number, st
     if (path === undefined) throw new Error(req.role === 'liver' ? 'this visit has no liver mask to edit; grow one first' : 'this visit has no lesion mask to edit; grow a lesion first');
     progress(0, 100, 'reading the mask');
     const mask = labelsAsBytes((await files.volume(path)).volume);
-    const centre = voxelIndexAtWorld(mask, req.seedMm);
+    const centre = voxelIndexAtWorld(mask, req.pathMm[0]);
     const labels = new Set<number>();
     for (let n = 0; n < mask.data.length; n++) if (mask.data[n]) labels.add(mask.data[n]);
     // Adding to a lesion mask extends the lesion under the brush, or a binary mask's one value.
     const value = req.erase ? 0 : req.role === 'liver' ? 1 : centre >= 0 && mask.data[centre] ? mask.data[centre] : labels.size === 1 ? [...labels][0] : Math.max(0, ...labels) + 1;
-    const { data, changed } = paintBall(mask, req.seedMm, req.radiusMm, value);
+    const dabs = strokeDabs(req.pathMm, req.radiusMm);
+    const { data, changed } = paintBalls(mask, dabs, req.radiusMm, value);
     const bytes = await webGzip(encodeNifti(makeVolume(mask.dims, data, mask.affine, 'uint8'), 'uint8'));
-    return { kind: 'brush', role: req.role, erase: req.erase, seedMm: req.seedMm, radiusMm: req.radiusMm, changed, bytes, dims: [...mask.dims], affine: [...mask.affine] };
+    return { kind: 'brush', role: req.role, erase: req.erase, pathMm: req.pathMm, dabs: dabs.length, radiusMm: req.radiusMm, changed, bytes, dims: [...mask.dims], affine: [...mask.affine] };
   }
   progress(0, 100, 'reading the scan');
   const scan = (await files.volume(v.scan)).volume;

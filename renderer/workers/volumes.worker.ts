@@ -3,7 +3,12 @@
 // or built from liver mask and landmarks with the core's own functions, as the analysis does) and the
 // lesion mask's lesions, all brought onto the scan's grid and handed over without copying. The scan goes
 // first, as soon as it is decoded, so the viewer draws it while the overlays are made.
+import { describeLiver } from '../../src/followup/liver-shape';
 import { transformPoint } from '../../src/geometry/mat4';
+import type { ManifestVisit } from '../../src/manifest/manifest';
+import type { PatientFiles } from '../../src/patient/load';
+import { parseLandmarks } from '../../src/segments/landmarks';
+import { proposeLandmarks } from '../../src/segments/propose';
 import { lesionsFromMask } from '../../src/lesions/components';
 import { visitSegmentMap } from '../../src/patient/visit-map';
 import { resampleLabels } from '../../src/segments/resample';
@@ -12,7 +17,7 @@ import { resampleNearest } from '../../src/volume/resample';
 import { storedPatient } from '../analysis/store-source';
 import { errorText } from '../error-text';
 import { appDb } from '../store/db';
-import type { VisitOverlays, VisitScan, VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
+import type { LandmarkProposal, VisitOverlays, VisitScan, VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
 import { serveJob, type Part, type Progress } from './job';
 
@@ -37,6 +42,18 @@ function liverBox(liver: Volume): VisitVolumes['liverBoxMm'] {
     });
   }
   return { min, max };
+}
+
+/** The earlier visit's landmarks carried onto this visit's liver (core `proposeLandmarks`). */
+async function propose(earlier: ManifestVisit, liver: Volume, files: PatientFiles, label: string): Promise<LandmarkProposal | null> {
+  const landmarks = parseLandmarks(await files.text(earlier.landmarks!), files.name(earlier.landmarks!));
+  const before = describeLiver((await files.volume(earlier.liver!)).volume);
+  const now = describeLiver(liver);
+  if (!before || !now) return null;
+  const p = proposeLandmarks({ landmarks, liver: before }, { liver: now }, label);
+  if (!p) return null;
+  const a = p.alignment;
+  return { fromVisit: earlier.id, set: p.set, method: a.method, residualMm: a.residualMm, rotationDeg: a.rotationDeg, warnings: a.warnings };
 }
 
 async function load({ patientId, visitId }: VolumesRequest, progress: Progress, part: Part): Promise<VisitOverlays> {
@@ -65,20 +82,37 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress, 
   part(first, v.liverSeedMm ? [] : [scan.data.buffer as ArrayBuffer]);
   const warnings: string[] = [];
 
-  progress(1, total, v.segments !== undefined ? 'reading the segment map' : 'building the segment map from the landmarks');
+  progress(1, total, v.segments !== undefined ? 'reading the segment map' : v.landmarks !== undefined ? 'building the segment map from the landmarks' : 'reading the liver mask');
   let segments: VisitVolumes['segments'] = null;
   let segmentProblem: string | null = null;
-  try {
-    const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
-    const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
-    warnings.push(...mapWarnings);
-    const names = new Set(map.scheme.values());
-    segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
-  } catch (e) {
-    segmentProblem = errorText(e);
+  // A scan alone, or a liver awaiting its landmarks, has no map yet: the landmark panel says what to do.
+  if (v.segments !== undefined || v.landmarks !== undefined) {
+    try {
+      const read = { volume: async (_role: string, p: string) => (await files.volume(p)).volume, text: (_role: string, p: string) => files.text(p), name: files.name };
+      const { map, source, warnings: mapWarnings } = await visitSegmentMap(v, read, scan);
+      warnings.push(...mapWarnings);
+      const names = new Set(map.scheme.values());
+      segments = { codes: resampleLabels(map, scan), splitIV: names.has('IVa') || names.has('IVb'), source };
+    } catch (e) {
+      segmentProblem = errorText(e);
+    }
   }
   // Only a visit that could switch to landmarks needs it; a built map has read the liver already.
-  const liverBoxMm = v.liver !== undefined && v.landmarks === undefined ? liverBox((await files.volume(v.liver)).volume) : null;
+  const liver = v.liver !== undefined && v.landmarks === undefined ? (await files.volume(v.liver)).volume : null;
+  const liverBoxMm = liver ? liverBox(liver) : null;
+  let proposal: LandmarkProposal | null = null;
+  if (liver && v.segments === undefined) {
+    // The nearest earlier visit with a landmark set (and so a liver mask) lends its points.
+    const earlier = manifest.visits.filter((x) => x.date < v.date && x.landmarks !== undefined && x.liver !== undefined).at(-1);
+    if (earlier) {
+      progress(1, total, `proposing landmarks from visit ${earlier.id}`);
+      try {
+        proposal = await propose(earlier, liver, files, v.id);
+      } catch (e) {
+        warnings.push(`landmarks could not be proposed from visit ${earlier.id}: ${errorText(e)}`);
+      }
+    }
+  }
 
   progress(2, total, 'outlining the lesions');
   let lesions: VisitVolumes['lesions'] = null;
@@ -92,8 +126,20 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress, 
     lesions = { labels: resampleNearest(own, mask, scan), ids: found.lesions.map((_, n) => `L${n + 1}`) };
   }
 
+  let viable: Uint8Array | null = null;
+  if (v.viable !== undefined) {
+    const mask = (await files.volume(v.viable)).volume;
+    const own = new Uint8Array(mask.data.length);
+    const { data, slope, inter } = mask;
+    for (let n = 0; n < own.length; n++) {
+      const x = data[n] * slope + inter;
+      if (x !== 0 && x === x) own[n] = 1;
+    }
+    viable = resampleNearest(own, mask, scan);
+  }
+
   progress(3, total, 'preparing the display');
-  return { segments, segmentProblem, lesions, liverBoxMm, warnings };
+  return { segments, segmentProblem, lesions, viable, liverBoxMm, proposal, warnings };
 }
 
-serveJob(load, (v) => [v.segments?.codes, v.lesions?.labels].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));
+serveJob(load, (v) => [v.segments?.codes, v.lesions?.labels, v.viable].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));

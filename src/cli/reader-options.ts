@@ -9,7 +9,7 @@ import { optionalOption, UsageError, type ParsedArgs } from './args.js';
  *   --non-target v2=present,v3=unequivocal-progression
  *   --outside-liver v2=none,v3=stable
  *   --new-lesion v2:L3=unequivocal
- *   --confirmed-gone v3:T1            (track as "T1" or "v1:L2")
+ *   --confirmed-gone v3:A             (track as "A" or "v1:L2")
  *   --too-small v2:L1
  */
 export const READER_OPTIONS = ['non-target', 'outside-liver', 'new-lesion', 'confirmed-gone', 'too-small'] as const;

@@ -1,5 +1,5 @@
 import type { Vec3 } from '../geometry/mat4.js';
-import { applyRigid, invertRigid } from '../geometry/rigid.js';
+import { applyRigid, invertRigid, type RigidTransform } from '../geometry/rigid.js';
 import { badInput } from '../errors.js';
 import { roundTo } from '../rounding.js';
 import type { LandmarkSet } from '../segments/landmarks.js';
@@ -7,7 +7,7 @@ import type { SegmentName } from '../segments/segment-map.js';
 import type { Volume } from '../volume/volume.js';
 import { alignVisit, referenceAlignment, type Alignment, type AlignmentMethod } from './align.js';
 import { burdenBySegment, type BurdenRow } from './burden.js';
-import { compareIds } from './ids.js';
+import { compareIds, currentTrackRef } from './ids.js';
 import { describeLiver, insideGrid, type LiverShape } from './liver-shape.js';
 import { bestOverallResponse, type BestResponse } from './best-response.js';
 import { mrecistNewLesionCounts, mrecistTargetCategory, selectViableTargets, viableFromComponents, type ViableComponent } from './mrecist.js';
@@ -74,7 +74,7 @@ export interface FollowupVisit {
 }
 
 export interface FollowupOptions {
-  /** Target tracks named by the user ("T1", …); default RECIST 1.1 selection otherwise. */
+  /** Target tracks named by the user ("A", …; the old "T1" is read as "A"); default RECIST 1.1 selection otherwise. */
   targets?: readonly string[];
   overrides?: readonly Override[];
   marginMm: number;
@@ -85,6 +85,8 @@ export interface FollowupOptions {
 
 export interface VisitAlignmentSummary {
   method: AlignmentMethod;
+  /** This visit's world mm → the baseline's world mm (identity for the baseline and an unaligned visit). */
+  transform: RigidTransform;
   residualMm: number | null;
   rotationDeg: number;
   warnings: string[];
@@ -112,6 +114,11 @@ export interface VisitFollowup {
   notEvaluable: string[];
   marginAlerts: string[];
   alignment: VisitAlignmentSummary;
+  /**
+   * Viable (arterially enhancing) diameter per lesion id, mm, where the visit gives viable measures
+   * (marks' `viableAxialMm` or a viable-tumour mask); null for a lesion without one.
+   */
+  viableAxialMm?: Record<string, number | null>;
 }
 
 export interface TrackSummary {
@@ -232,7 +239,8 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     warnings.push('mRECIST asked for, but the baseline visit gives no viable-tumour diameters; RECIST 1.1 used instead');
     criteria = 'RECIST 1.1';
   }
-  const named = opts.targets && opts.targets.length > 0 ? [...opts.targets] : null;
+  // A target named the old way ("T1") is read as its letter ("A").
+  const named = opts.targets && opts.targets.length > 0 ? opts.targets.map(currentTrackRef) : null;
   if (named) validateNamedTargets(named, baselineTracks, (t) => measuredAt(t, 0), visits[0].sliceThicknessMm, warnings);
   const recistTargets =
     named ??
@@ -255,10 +263,10 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
   const protocol = withProtocolDefaults(opts.protocol);
   const visitIndex = new Map(visits.map((v, k) => [v.id, k]));
   const calls = visits.map((v) => v.readerCalls ?? {});
-  // "T3", or "v1:L2" for the track holding L2 at v1.
+  // "C" (or the old "T3"), or "v1:L2" for the track holding L2 at v1.
   const resolveTrack = (ref: string): Track | undefined => {
     const colon = ref.indexOf(':');
-    if (colon < 0) return trackById.get(ref);
+    if (colon < 0) return trackById.get(currentTrackRef(ref));
     const k = visitIndex.get(ref.slice(0, colon));
     const lesion = ref.slice(colon + 1);
     return k === undefined ? undefined : tracks.find((t) => t.visits[k]?.lesions.includes(lesion));
@@ -396,7 +404,8 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
       readerCalls: { ...calls[k], outsideLiver: calls[k].outsideLiver ?? 'not-assessed' },
       notEvaluable: withStatus('not-evaluable'),
       marginAlerts: tracks.filter((t) => lesionsAt(t, k).some((l) => belowMargin(l, opts.marginMm))).map((t) => t.id),
-      alignment: { method: a.method, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
+      alignment: { method: a.method, transform: a.transform, residualMm: a.residualMm === null ? null : roundTo(a.residualMm, 2), rotationDeg: roundTo(a.rotationDeg, 2), warnings: a.warnings },
+      ...(viable[k] ? { viableAxialMm: Object.fromEntries(v.lesions.map((l) => [l.id, viableOf(viable[k]!, l.id)])) } : {}),
     };
   });
 
@@ -427,6 +436,19 @@ export function runFollowup(input: readonly FollowupVisit[], opts: FollowupOptio
     warnings,
     notes: FOLLOWUP_NOTES,
   };
+}
+
+function viableOf(map: ReadonlyMap<string, number | null>, id: string): number | null {
+  const x = map.get(id);
+  return x === undefined || x === null ? null : round1(x);
+}
+
+/**
+ * Whether a follow-up's screens and reports show viable diameters: under mRECIST, or wherever a
+ * visit gives a viable measure.
+ */
+export function showsViable(f: Pick<FollowupResult, 'criteria' | 'visits'>): boolean {
+  return f.criteria === 'mRECIST' || f.visits.some((v) => v.viableAxialMm !== undefined);
 }
 
 /** A margin alert under the patient's margin (a lesion without a measured margin keeps its own flag). */

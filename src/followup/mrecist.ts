@@ -19,7 +19,9 @@ import { MEASURABLE_MIN_MM, selectTargets, targetCategory, type TargetCandidate,
  * - New intrahepatic lesion: counts when at least 1 cm and enhancing (the typical vascular pattern);
  *   smaller or non-enhancing ones are equivocal until they reach 1 cm or a reader calls them.
  * - Viable diameters come from marks (`viableAxialMm`) or from a viable-tumour mask, whose connected
- *   components are given to the lesion whose extent holds them (the longest viable focus counts).
+ *   components are given to the lesion whose extent holds them (the longest viable focus counts). A
+ *   component's diameter is the longest axial segment that stays inside it (`longestInsideAxial`),
+ *   so a segment never crosses a necrotic centre: an enhancing rim is not the lesion's full width.
  */
 
 /** Least viable diameter of an mRECIST target, and of a new lesion that counts (mm). */
@@ -54,7 +56,8 @@ export function mrecistNewLesionCounts(longestMm: number, viableMm: number | nul
 
 export interface ViableComponent {
   centroidMm: Vec3;
-  longestAxialMm: number;
+  /** Longest axial segment inside the component (not crossing necrosis), mm. */
+  viableAxialMm: number;
 }
 
 /**
@@ -80,7 +83,7 @@ export function viableFromComponents(
       }
     }
     if (best === null) unassigned++;
-    else viable.set(best, Math.max(viable.get(best) ?? 0, c.longestAxialMm));
+    else viable.set(best, Math.max(viable.get(best) ?? 0, c.viableAxialMm));
   }
   return { viable, unassigned };
 }

@@ -13,7 +13,7 @@ export interface VisitReaderCalls {
   newLesions?: Record<string, NewLesionCall>;
   /** Lesion ids at this visit the reader judges present but too small to measure (recorded as 5 mm). */
   tooSmall?: string[];
-  /** Tracks (as "T1", or "v1:L2" for the track holding L2 at v1) absent from this visit's mask that the reader confirms gone. */
+  /** Tracks (as "A", or "v1:L2" for the track holding L2 at v1; the old "T1" is read as "A") absent from this visit's mask that the reader confirms gone. */
   confirmedGone?: string[];
   /** The non-target lesions as a whole. */
   nonTarget?: NonTargetCall;

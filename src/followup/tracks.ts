@@ -2,7 +2,7 @@ import type { Vec3 } from '../geometry/mat4.js';
 import { distance } from '../geometry/vec3.js';
 import { badInput } from '../errors.js';
 import { assignCandidates, type Candidates } from './hungarian.js';
-import { compareIds } from './ids.js';
+import { compareIds, currentTrackRef, trackId } from './ids.js';
 
 /**
  * Lesion tracks: which lesion at each visit is the same lesion as before.
@@ -28,12 +28,12 @@ import { compareIds } from './ids.js';
  *    has coalesced: the lesion goes to the lower-numbered track (the one a reader linked, if any),
  *    the other is marked merged into it and counts 0 mm (RECIST 1.1: the coalesced lesion is
  *    measured whole). A merged track stays merged until a reader links a lesion to it.
- * 5. Lesions still unpaired start new tracks, numbered T1, T2, … in order of first appearance and,
- *    within a visit, in natural lesion-id order. Tracks still unpaired are gone — or not evaluable
+ * 5. Lesions still unpaired start new tracks, lettered A, B, … Z, AA, AB, … (ids.ts) in order of first
+ *    appearance and, within a visit, in natural lesion-id order. Tracks still unpaired are gone — or not evaluable
  *    when their last position lies outside this visit's scanned field.
  *
  * Track ids depend only on the input and the overrides, so recomputing gives the same ids; a link
- * may name its track as "T3" or, robust to renumbering, as "v1:L2" (the track holding L2 at v1).
+ * may name its track as "C" or, robust to renumbering, as "v1:L2" (the track holding L2 at v1).
  */
 
 export type Override =
@@ -135,7 +135,8 @@ export function buildTracks(visits: readonly TrackVisitInput[], overrides: reado
         if (v === undefined || v >= k) return null;
         return holder.get(`${v}:${ref.slice(colon + 1)}`) ?? null;
       }
-      const t = states.findIndex((s) => s.track.id === ref);
+      const id = currentTrackRef(ref);
+      const t = states.findIndex((s) => s.track.id === id);
       return t >= 0 ? t : null;
     };
 
@@ -268,7 +269,7 @@ export function buildTracks(visits: readonly TrackVisitInput[], overrides: reado
     for (const n of sortedByLesionId(lesions.map((_, n) => n).filter((n) => lesionTrack[n] < 0), lesions)) {
       const t = states.length;
       states.push({
-        track: { id: `T${t + 1}`, firstVisit: k, visits: new Array<TrackAtVisit | null>(visits.length).fill(null) },
+        track: { id: trackId(t), firstVisit: k, visits: new Array<TrackAtVisit | null>(visits.length).fill(null) },
         ref: { centre: lesions[n].centreMm, radiusMm: 0, sizeMm: 0 },
         lastPresent: k,
         mergedInto: null,

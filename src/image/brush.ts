@@ -9,7 +9,43 @@ import type { Volume, VoxelArray } from '../volume/volume.js';
  * changed; the mask itself is left as it was (the caller keeps it for undo).
  */
 export function paintBall(mask: Volume, centreMm: Vec3, radiusMm: number, value: number): { data: VoxelArray; changed: number } {
+  return paintBalls(mask, [centreMm], radiusMm, value);
+}
+
+/** Dabs along a stroke are at most this share of the radius apart (see `strokeDabs`). */
+export const DAB_SPACING = 0.5;
+
+/**
+ * The dab centres of a dragged stroke: the pointer's points joined by straight pieces, each cut into
+ * steps of at most `DAB_SPACING` × radius, so a fast drag (few pointer events far apart) still leaves
+ * no gap. Balls of radius r with centres s apart along a line cover the whole capsule of radius
+ * √(r² − s²/4) around it: with s = r/2 that is 0.968 r.
+ */
+export function strokeDabs(pathMm: readonly Vec3[], radiusMm: number): Vec3[] {
+  if (pathMm.length === 0) return [];
+  const step = DAB_SPACING * radiusMm;
+  const out: Vec3[] = [pathMm[0]];
+  for (let n = 1; n < pathMm.length; n++) {
+    const a = pathMm[n - 1], b = pathMm[n];
+    const length = Math.hypot(b[0] - a[0], b[1] - a[1], b[2] - a[2]);
+    const pieces = Math.ceil(length / step);
+    for (let k = 1; k <= pieces; k++) {
+      const t = k / pieces;
+      out.push([a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1]), a[2] + t * (b[2] - a[2])]);
+    }
+  }
+  return out;
+}
+
+/** Several dabs (a stroke) painted on one copy of the mask: one change, one undo step. */
+export function paintBalls(mask: Volume, centresMm: readonly Vec3[], radiusMm: number, value: number): { data: VoxelArray; changed: number } {
   const data = mask.data.slice() as VoxelArray;
+  let changed = 0;
+  for (const c of centresMm) changed += dab(mask, data, c, radiusMm, value);
+  return { data, changed };
+}
+
+function dab(mask: Volume, data: VoxelArray, centreMm: Vec3, radiusMm: number, value: number): number {
   const [nx, ny, nz] = mask.dims;
   const m = mask.inverse;
   const A = mask.affine;
@@ -34,5 +70,5 @@ export function paintBall(mask: Volume, centreMm: Vec3, radiusMm: number, value:
       }
     }
   }
-  return { data, changed };
+  return changed;
 }

@@ -33,6 +33,7 @@ export function transformAxis(
   buf: EnvelopeBuffers,
   base = 0,
   edgesZero = false,
+  faces = false,
 ): void {
   const { f, out } = buf;
   const off = edgesZero ? 1 : 0;
@@ -51,9 +52,19 @@ export function transformAxis(
       f[0] = 0;
       f[n + 1] = 0;
     }
+    if (faces) neighbourMin(f, n + 2 * off, out);
     lowerEnvelope(f, n + 2 * off, w2, out, buf.v, buf.z);
     for (let q = 0; q < n; q++) d2[start + q * step] = out[q + off];
   }
+}
+
+/**
+ * f[q] becomes the least of f[q-1], f[q], f[q+1] (`tmp` is scratch). Before a pass this lets every
+ * sample move one step towards the set for free: the offset along this axis counts one voxel less.
+ */
+function neighbourMin(f: Float64Array, n: number, tmp: Float64Array): void {
+  for (let q = 0; q < n; q++) tmp[q] = Math.min(f[q], q > 0 ? f[q - 1] : Infinity, q < n - 1 ? f[q + 1] : Infinity);
+  for (let q = 0; q < n; q++) f[q] = tmp[q];
 }
 
 /** 1-D squared distance transform of sampled function f with sample spacing² w2. */
@@ -93,13 +104,26 @@ function lowerEnvelope(f: Float64Array, n: number, w2: number, out: Float64Array
  * Squared distance in mm² from each voxel of `box` (box order, i fastest) to the nearest voxel of the
  * set, given as a box-sized array with 0 on set voxels and Infinity elsewhere (transformed in place).
  * With `outsideInSet` every voxel beyond the box counts as part of the set.
+ *
+ * `between` says what is measured: 'centres', voxel centre to voxel centre; 'faces', the gap between
+ * the voxels' boxes (each voxel filling its cell), so along every axis the offset counts one voxel
+ * less (half a voxel at each end, floored at 0) and voxels that share a face, edge or corner are 0
+ * apart. Per axis the faces gap is min over a step of -1, 0 or +1 of the centres offset, so one
+ * neighbour minimum before each axis's pass gives it exactly.
  */
-export function squaredDistanceInBox(d2: Float32Array | Float64Array, box: Box, spacingMm: readonly number[], outsideInSet = false): void {
+export function squaredDistanceInBox(
+  d2: Float32Array | Float64Array,
+  box: Box,
+  spacingMm: readonly number[],
+  outsideInSet = false,
+  between: 'centres' | 'faces' = 'centres',
+): void {
   const { bx, by, bz } = box;
+  const faces = between === 'faces';
   const buf = envelopeBuffers(Math.max(bx, by, bz));
-  transformAxis(d2, bx, by * bz, 1, bx, spacingMm[0] * spacingMm[0], buf, 0, outsideInSet);
-  for (let k = 0; k < bz; k++) transformAxis(d2, by, bx, bx, 1, spacingMm[1] * spacingMm[1], buf, k * bx * by, outsideInSet);
-  transformAxis(d2, bz, bx * by, bx * by, 1, spacingMm[2] * spacingMm[2], buf, 0, outsideInSet);
+  transformAxis(d2, bx, by * bz, 1, bx, spacingMm[0] * spacingMm[0], buf, 0, outsideInSet, faces);
+  for (let k = 0; k < bz; k++) transformAxis(d2, by, bx, bx, 1, spacingMm[1] * spacingMm[1], buf, k * bx * by, outsideInSet, faces);
+  transformAxis(d2, bz, bx * by, bx * by, 1, spacingMm[2] * spacingMm[2], buf, 0, outsideInSet, faces);
 }
 
 /** Box-order array with 0 where the grid mask (at the box's place) equals `inSet` (0 or non-zero), Infinity elsewhere. */

@@ -1,17 +1,17 @@
-import type { Vec3 } from '../geometry/mat4.js';
+import type { Mat4, Vec3 } from '../geometry/mat4.js';
 import type { Box } from '../image/box.js';
 import { squaredDistanceInBox } from '../image/distance.js';
 import type { SegmentMap, SegmentName } from '../segments/segment-map.js';
 import { sameGrid } from '../volume/resample.js';
 import type { Volume } from '../volume/volume.js';
 import type { LesionVoxels } from './components.js';
-import { orthogonalColumns } from './grid.js';
+import { ORTHOGONAL_TOLERANCE, orthogonalColumns } from './grid.js';
 import { nearestVoxelInBall } from './nearest-voxel.js';
 import { PointTree } from './point-tree.js';
 import { BACKGROUND, segmentLookup, segmentName, type SegmentIndex } from './segment-lookup.js';
 
 export interface MarginResult {
-  /** Distance in mm to the nearest voxel centre of another segment; null: none within the search radius. */
+  /** Distance in mm to the border surface of another segment (see maskLesionMargin); null: none within the search radius. */
   marginMm: number | null;
   nearestOtherSegment: SegmentName | null;
 }
@@ -29,14 +29,21 @@ export function isMarginAlert(marginMm: number | null, setMarginMm: number): boo
 
 /**
  * Margin of a lesion from a mask whose voxels all lie in segment `own` or background (a lesion that
- * spans segments has margin 0 by definition; the caller decides that first): the shortest distance
- * from its voxel centres to a voxel centre of another non-background segment, exact up to `capMm`.
- * Only a box around the lesion reaching `capMm` beyond it is read, so the cost follows the lesion's
- * size and the radius, not the scan's.
+ * spans segments has margin 0 by definition; the caller decides that first), exact up to `capMm`.
+ *
+ * The margin is measured surface to surface: from the lesion's outer faces (each voxel fills its
+ * cell) to the border surface, the faces of the other segment's voxels. Between a lesion voxel and
+ * an other-segment voxel on one grid that is the centre offset less half a voxel at each end along
+ * every axis crossed (floored at 0), with each axis's own spacing: a lesion voxel that shares a face
+ * (or an edge or corner) with another segment's voxel is 0 mm from the border, so it alerts at any
+ * set margin. Only a box around the lesion reaching `capMm` beyond it is read, so the cost follows
+ * the lesion's size and the radius, not the scan's.
  *
  * On a shared grid with perpendicular axes this is a box-limited Euclidean distance transform; on
- * other grids, for very large boxes, or on request, an exact nearest-point search between the two
- * voxel sets' borders. Both give the same distance.
+ * other grids, for very large boxes, or on request, a nearest-point search between the two voxel
+ * sets' borders. Both give the same distance on one grid. On grids that are not parallel to each
+ * other, the map's voxels are taken as their bounding boxes along the lesion grid's axes, which can
+ * only bring the border nearer (by less than a map voxel), never hide an alert.
  */
 export function maskLesionMargin(
   mask: Volume,
@@ -50,7 +57,8 @@ export function maskLesionMargin(
   const edtFits = sameGrid(mask, map.labels) && orthogonalColumns(mask.affine);
   if (method === 'edt' && !edtFits) throw new Error('the distance-transform margin needs one grid with perpendicular axes');
   if (method === 'search' || !edtFits) return marginBySearch(mask, lesion, map, own, capMm);
-  const box = lesionBox(mask.dims, lesion.voxels, mask.spacingMm.map((s) => Math.ceil(capMm / s)));
+  // A voxel within capMm of the lesion's faces is at most one voxel further from its centres.
+  const box = lesionBox(mask.dims, lesion.voxels, mask.spacingMm.map((s) => Math.ceil(capMm / s) + 1));
   // The transform holds 8 bytes per box voxel; past this size the search, which holds only border
   // points, costs about the same time in a fraction of the memory.
   if (method === 'auto' && box.bx * box.by * box.bz > EDT_MAX_BOX_VOXELS) return marginBySearch(mask, lesion, map, own, capMm);
@@ -60,8 +68,9 @@ export function maskLesionMargin(
 const EDT_MAX_BOX_VOXELS = 1 << 21;
 
 /**
- * Margin of a manual mark: distance from its centre to the nearest voxel centre of another segment,
- * less half its longest diameter, floored at 0 (brief, "Measures").
+ * Margin of a manual mark: distance from its centre to the border surface of another segment (the
+ * nearest face of an other-segment voxel, as for a mask), less half its longest diameter, floored
+ * at 0 (brief, "Measures", with the border surface as in maskLesionMargin).
  */
 export function markMargin(map: SegmentMap, centreMm: Vec3, longestMm: number, own: SegmentIndex, capMm: number): MarginResult {
   if (own === BACKGROUND) return NONE;
@@ -69,7 +78,7 @@ export function markMargin(map: SegmentMap, centreMm: Vec3, longestMm: number, o
   const near = nearestVoxelInBall(map.labels, centreMm, capMm + longestMm / 2, (n) => {
     const s = seg(n);
     return s !== own && s !== BACKGROUND;
-  });
+  }, 'box');
   if (!near) return NONE;
   return { marginMm: Math.max(0, near.distanceMm - longestMm / 2), nearestOtherSegment: segmentName(seg(near.index)) };
 }
@@ -97,9 +106,9 @@ function lesionBox(dims: readonly [number, number, number], voxels: Uint32Array,
 }
 
 /**
- * Exact squared Euclidean distance transform of the lesion over a box (separable lower envelope of
- * parabolas, one pass per axis with that axis's spacing), then the smallest value over the box's
- * voxels of other segments.
+ * Exact squared Euclidean distance transform of the lesion over a box, face to face (separable lower
+ * envelope of parabolas, one pass per axis with that axis's spacing), then the smallest value over
+ * the box's voxels of other segments.
  */
 function marginByDistanceTransform(
   mask: Volume,
@@ -137,7 +146,7 @@ function marginByDistanceTransform(
     const k = (n - i - nx * j) / (nx * ny);
     d2[i - i0 + bx * (j - j0 + by * (k - k0))] = 0;
   }
-  squaredDistanceInBox(d2, box, sp);
+  squaredDistanceInBox(d2, box, sp, false, 'faces');
 
   let best = capMm * capMm * (1 + 1e-12);
   let bestSeg: SegmentIndex = BACKGROUND;
@@ -161,36 +170,40 @@ function marginByDistanceTransform(
 }
 
 /**
- * Exact nearest pair between the lesion's voxel centres and the other segments' voxel centres in
- * world mm, for grids that differ. Where a grid's axes are perpendicular a voxel's box is its Voronoi
- * cell, so the nearest point of a voxel set to anything outside it lies on the set's face border:
- * interior voxels of either set are dropped. A map voxel that falls inside a lesion voxel's box has
- * that voxel as its nearest lesion point and is measured directly.
+ * Nearest pair between the lesion's voxels and the other segments' voxels, face to face, for grids
+ * that differ. Distances are taken in the lesion grid's own frame (its unit axes; world axes when
+ * they are skewed), where each lesion voxel is a box of half its spacing per axis and each map voxel
+ * the bounding box of its cell; the gap between two boxes is each axis offset less the two half-widths,
+ * floored at 0. Where a grid's axes are perpendicular (and, for the map, parallel to the frame) a
+ * voxel set's gap to anything outside it is reached from its face border, so interior voxels of
+ * either set are dropped. A map voxel centre inside a lesion voxel's cell is 0 mm away.
  */
 function marginBySearch(mask: Volume, lesion: LesionVoxels, map: SegmentMap, own: SegmentIndex, capMm: number): MarginResult {
-  const lesionPts = lesionBorderPoints(mask, lesion);
-  const tree = new PointTree(lesionPts);
   const labels = map.labels;
+  const maskOrthogonal = orthogonalColumns(mask.affine);
+  const R = maskOrthogonal ? unitColumns(mask.affine) : IDENTITY;
+  const lesionHalf = halfWidthsIn(mask.affine, R);
+  const mapHalf = halfWidthsIn(labels.affine, R);
+  const slack = [0, 1, 2].map((r) => lesionHalf[r] + mapHalf[r]);
+  const tree = new PointTree(lesionBorderPoints(mask, lesion, R));
   const [mx, my, mz] = labels.dims;
   const seg = segmentLookup(map);
   const isOther = (s: SegmentIndex) => s !== own && s !== BACKGROUND;
-  const mapBox = worldBoxOnGrid(mask, lesion.voxels, labels, capMm);
-  const mapOrthogonal = orthogonalColumns(labels.affine);
-  const maskOrthogonal = orthogonalColumns(mask.affine);
+  const mapBox = worldBoxOnGrid(mask, lesion.voxels, labels, capMm + Math.hypot(slack[0], slack[1], slack[2]));
+  const mapExact = orthogonalColumns(labels.affine) && parallelToFrame(labels.affine, R);
   const [nx, ny, nz] = mask.dims;
   const Mi = mask.inverse;
   const A = labels.affine;
-  const B = mask.affine;
 
   let best = capMm * capMm * (1 + 1e-12);
   let bestSeg: SegmentIndex = BACKGROUND;
   const borderOfOthers = (a: number, b: number, c: number, n: number) => {
-    if (!mapOrthogonal) return true;
+    if (!mapExact) return true;
     if (a === 0 || b === 0 || c === 0 || a === mx - 1 || b === my - 1 || c === mz - 1) return true;
     return !isOther(seg(n - 1)) || !isOther(seg(n + 1)) || !isOther(seg(n - mx)) || !isOther(seg(n + mx)) ||
       !isOther(seg(n - mx * my)) || !isOther(seg(n + mx * my));
   };
-  for (let c = mapBox.k0; c < mapBox.k0 + mapBox.bz; c++) {
+  for (let c = mapBox.k0; c < mapBox.k0 + mapBox.bz && best > 0; c++) {
     for (let b = mapBox.j0; b < mapBox.j0 + mapBox.by; b++) {
       for (let a = mapBox.i0; a < mapBox.i0 + mapBox.bx; a++) {
         const n = a + mx * (b + my * c);
@@ -204,28 +217,66 @@ function marginBySearch(mask: Volume, lesion: LesionVoxels, map: SegmentMap, own
           const j = Math.round(Mi[4] * x + Mi[5] * y + Mi[6] * z + Mi[7]);
           const k = Math.round(Mi[8] * x + Mi[9] * y + Mi[10] * z + Mi[11]);
           if (i >= 0 && j >= 0 && k >= 0 && i < nx && j < ny && k < nz && contains(lesion.voxels, i + nx * (j + ny * k))) {
-            const d2 = (B[0] * i + B[1] * j + B[2] * k + B[3] - x) ** 2 + (B[4] * i + B[5] * j + B[6] * k + B[7] - y) ** 2 +
-              (B[8] * i + B[9] * j + B[10] * k + B[11] - z) ** 2;
-            if (d2 < best) {
-              best = d2;
-              bestSeg = s;
-            }
-            continue;
+            best = 0;
+            bestSeg = s;
+            break;
           }
         }
-        const hit = tree.nearest(x, y, z, best);
+        const hit = tree.nearest(R[0] * x + R[1] * y + R[2] * z, R[3] * x + R[4] * y + R[5] * z, R[6] * x + R[7] * y + R[8] * z, best, slack);
         if (hit.index >= 0) {
           best = hit.d2;
           bestSeg = s;
         }
       }
+      if (best === 0) break;
     }
   }
-  return bestSeg === BACKGROUND ? NONE : { marginMm: Math.sqrt(best), nearestOtherSegment: segmentName(bestSeg) };
+  if (bestSeg === BACKGROUND) return NONE;
+  // World coordinates carry rounding (about 1e-15 mm); faces that meet must read 0, which alerts at 0.
+  const mm = Math.sqrt(best);
+  return { marginMm: mm < FACE_TOLERANCE_MM ? 0 : mm, nearestOtherSegment: segmentName(bestSeg) };
 }
 
-/** World centres of the lesion's voxels that have a face neighbour outside it (all voxels on a skewed grid). */
-function lesionBorderPoints(mask: Volume, lesion: LesionVoxels): Float64Array {
+const FACE_TOLERANCE_MM = 1e-9;
+
+/** A frame as a row-major 3×3 rotation: row r is frame axis r in world coordinates. */
+type Frame = readonly number[];
+const IDENTITY: Frame = [1, 0, 0, 0, 1, 0, 0, 0, 1];
+
+/** The grid's unit axes as a frame (for perpendicular axes). */
+function unitColumns(affine: Mat4): Frame {
+  const out: number[] = [];
+  for (let c = 0; c < 3; c++) {
+    const len = Math.hypot(affine[c], affine[4 + c], affine[8 + c]);
+    out.push(affine[c] / len, affine[4 + c] / len, affine[8 + c] / len);
+  }
+  return out;
+}
+
+/** Half-widths along each frame axis of the bounding box of one voxel's cell of the grid. */
+function halfWidthsIn(affine: Mat4, R: Frame): number[] {
+  return [0, 1, 2].map((r) => {
+    let h = 0;
+    for (let c = 0; c < 3; c++) h += Math.abs(R[3 * r] * affine[c] + R[3 * r + 1] * affine[4 + c] + R[3 * r + 2] * affine[8 + c]);
+    return h / 2;
+  });
+}
+
+/** True when every grid axis lies along one frame axis (the cells are boxes in the frame). */
+function parallelToFrame(affine: Mat4, R: Frame): boolean {
+  for (let c = 0; c < 3; c++) {
+    const len = Math.hypot(affine[c], affine[4 + c], affine[8 + c]);
+    let along = 0;
+    for (let r = 0; r < 3; r++) {
+      if (Math.abs(R[3 * r] * affine[c] + R[3 * r + 1] * affine[4 + c] + R[3 * r + 2] * affine[8 + c]) > ORTHOGONAL_TOLERANCE * len) along++;
+    }
+    if (along !== 1) return false;
+  }
+  return true;
+}
+
+/** Centres, in the frame, of the lesion's voxels that have a face neighbour outside it (all voxels on a skewed grid). */
+function lesionBorderPoints(mask: Volume, lesion: LesionVoxels, R: Frame): Float64Array {
   const [nx, ny, nz] = mask.dims;
   const data = mask.data;
   const value = lesion.storedValue;
@@ -242,7 +293,8 @@ function lesionBorderPoints(mask: Volume, lesion: LesionVoxels): Float64Array {
       data[n - 1] !== value || data[n + 1] !== value || data[n - nx] !== value || data[n + nx] !== value ||
       data[n - nx * ny] !== value || data[n + nx * ny] !== value;
     if (!border) continue;
-    out.push(A[0] * i + A[1] * j + A[2] * k + A[3], A[4] * i + A[5] * j + A[6] * k + A[7], A[8] * i + A[9] * j + A[10] * k + A[11]);
+    const x = A[0] * i + A[1] * j + A[2] * k + A[3], y = A[4] * i + A[5] * j + A[6] * k + A[7], z = A[8] * i + A[9] * j + A[10] * k + A[11];
+    out.push(R[0] * x + R[1] * y + R[2] * z, R[3] * x + R[4] * y + R[5] * z, R[6] * x + R[7] * y + R[8] * z);
   }
   return Float64Array.from(out);
 }

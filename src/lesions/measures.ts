@@ -36,7 +36,7 @@ export function measureMaskLesion(id: string, mask: Volume, lesion: LesionVoxels
 }
 
 /** (i, j, k) of each voxel, interleaved. */
-function voxelCoords(dims: readonly [number, number, number], voxels: Uint32Array): Int32Array {
+export function voxelCoords(dims: readonly [number, number, number], voxels: Uint32Array): Int32Array {
   const [nx, ny] = dims;
   const out = new Int32Array(voxels.length * 3);
   for (let t = 0; t < voxels.length; t++) {
@@ -65,14 +65,7 @@ interface AxialResult {
  */
 function longestAxial(mask: Volume, coords: Int32Array): AxialResult {
   const A = mask.affine;
-  const ax = axialAxis(A);
-  const [a0, a1] = ax === 0 ? [1, 2] : ax === 1 ? [0, 2] : [0, 1];
-  const col = (c: number) => [A[c], A[4 + c], A[8 + c]];
-  const c0 = col(a0), c1 = col(a1);
-  // In-plane frame: u along axis a0, v perpendicular to it within the plane.
-  const alpha = Math.hypot(c0[0], c0[1], c0[2]);
-  const beta = (c0[0] * c1[0] + c0[1] * c1[1] + c0[2] * c1[2]) / alpha;
-  const gamma = Math.sqrt(Math.max(0, c1[0] ** 2 + c1[1] ** 2 + c1[2] ** 2 - beta * beta));
+  const { ax, a0, a1, alpha, beta, gamma } = axialFrame(A);
 
   const count = coords.length / 3;
   let cMin = Infinity, cMax = -Infinity, qMin = Infinity, qMax = -Infinity;
@@ -166,6 +159,23 @@ function longestAxial(mask: Volume, coords: Int32Array): AxialResult {
     return transformPoint(A, ijk);
   };
   return { longestMm: Math.sqrt(best), shortMm: bestShort, endpointsMm: [toWorld(bestP1, bestQ1), toWorld(bestP2, bestQ2)] };
+}
+
+/**
+ * The axial grid axis `ax`, the two in-plane grid axes `a0`, `a1`, and an orthonormal frame of the
+ * slice plane: grid point (p, q) on axes (a0, a1) lies at (p·alpha + q·beta, q·gamma) mm, so in-plane
+ * distances are exact on anisotropic and oblique grids.
+ */
+export function axialFrame(A: Mat4): { ax: number; a0: number; a1: number; alpha: number; beta: number; gamma: number } {
+  const ax = axialAxis(A);
+  const [a0, a1] = ax === 0 ? [1, 2] : ax === 1 ? [0, 2] : [0, 1];
+  const col = (c: number) => [A[c], A[4 + c], A[8 + c]];
+  const c0 = col(a0), c1 = col(a1);
+  // u along axis a0, v perpendicular to it within the plane.
+  const alpha = Math.hypot(c0[0], c0[1], c0[2]);
+  const beta = (c0[0] * c1[0] + c0[1] * c1[1] + c0[2] * c1[2]) / alpha;
+  const gamma = Math.sqrt(Math.max(0, c1[0] ** 2 + c1[1] ** 2 + c1[2] ** 2 - beta * beta));
+  return { ax, a0, a1, alpha, beta, gamma };
 }
 
 /** Width of the hull across the direction from vertex e1 to vertex e2. */

@@ -12,6 +12,9 @@ export class PointTree {
   private qz = 0;
   private best = 0;
   private bestIndex = -1;
+  private hx = 0;
+  private hy = 0;
+  private hz = 0;
 
   constructor(pts: Float64Array) {
     this.pts = pts;
@@ -32,11 +35,18 @@ export class PointTree {
     }
   }
 
-  /** Index of the point nearest to (x, y, z) closer than sqrt(bound2), and its squared distance. */
-  nearest(x: number, y: number, z: number, bound2: number): { index: number; d2: number } {
+  /**
+   * Index of the point nearest to (x, y, z) closer than sqrt(bound2), and its squared distance. With
+   * `slack` the distance is between boxes of those half-widths per axis (summed for the two boxes)
+   * centred on the points: each axis offset less its slack, floored at 0.
+   */
+  nearest(x: number, y: number, z: number, bound2: number, slack: readonly number[] = NO_SLACK): { index: number; d2: number } {
     this.qx = x;
     this.qy = y;
     this.qz = z;
+    this.hx = slack[0];
+    this.hy = slack[1];
+    this.hz = slack[2];
     this.best = bound2;
     this.bestIndex = -1;
     this.search(0, this.perm.length);
@@ -53,19 +63,23 @@ export class PointTree {
     const p = perm[mid];
     const ax = this.axis[mid];
     const diff = (ax === 0 ? this.qx : ax === 1 ? this.qy : this.qz) - pts[3 * p + ax];
+    // Every point beyond the split lies at least this far along the split axis.
+    const gap = Math.max(0, Math.abs(diff) - (ax === 0 ? this.hx : ax === 1 ? this.hy : this.hz));
     this.visit(p);
     if (diff < 0) {
       this.search(lo, mid);
-      if (diff * diff < this.best) this.search(mid + 1, hi);
+      if (gap * gap < this.best) this.search(mid + 1, hi);
     } else {
       this.search(mid + 1, hi);
-      if (diff * diff < this.best) this.search(lo, mid);
+      if (gap * gap < this.best) this.search(lo, mid);
     }
   }
 
   private visit(p: number): void {
     const pts = this.pts;
-    const dx = pts[3 * p] - this.qx, dy = pts[3 * p + 1] - this.qy, dz = pts[3 * p + 2] - this.qz;
+    const dx = Math.max(0, Math.abs(pts[3 * p] - this.qx) - this.hx);
+    const dy = Math.max(0, Math.abs(pts[3 * p + 1] - this.qy) - this.hy);
+    const dz = Math.max(0, Math.abs(pts[3 * p + 2] - this.qz) - this.hz);
     const d2 = dx * dx + dy * dy + dz * dz;
     if (d2 < this.best) {
       this.best = d2;
@@ -117,3 +131,4 @@ export class PointTree {
 }
 
 const LEAF = 8;
+const NO_SLACK = [0, 0, 0] as const;

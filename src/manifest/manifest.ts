@@ -10,7 +10,7 @@ import { SEGMENT_NAMES } from '../segments/segment-map.js';
 z.config({ jitless: true });
 
 /** An ISO 8601 calendar date (YYYY-MM-DD) that exists. */
-const isoDate = z.string().refine((s) => {
+export const isoDate = z.string().refine((s) => {
   if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) return false;
   const d = new Date(`${s}T00:00:00Z`);
   return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
@@ -20,16 +20,16 @@ const relPath = z.string().min(1, 'must name a file');
 const id = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must be 1–64 letters, digits, ".", "_" or "-"');
 
 /** A reader's calls at a visit (src/followup/reader-calls.ts). */
-const readerCalls = z.strictObject({
+export const readerCalls = z.strictObject({
   newLesions: z.record(id, z.enum(NEW_LESION_CALLS)).optional(),
   tooSmall: z.array(id).optional(),
-  confirmedGone: z.array(z.string().regex(/^([A-Za-z0-9][A-Za-z0-9._-]{0,63}:)?[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must name a track as "T1" or "v1:L2"')).optional(),
+  confirmedGone: z.array(z.string().regex(/^([A-Za-z0-9][A-Za-z0-9._-]{0,63}:)?[A-Za-z0-9][A-Za-z0-9._-]{0,63}$/, 'must name a track as "A" or "v1:L2"')).optional(),
   nonTarget: z.enum(NON_TARGET_CALLS).optional(),
   outsideLiver: z.enum(OUTSIDE_LIVER_CALLS).optional(),
 });
 
 /** Protocol settings of the response rules (src/followup/protocol.ts); all optional. */
-const protocol = z.strictObject({
+export const protocol = z.strictObject({
   equivocalNewBelowMm: z.number().nonnegative().max(100).optional(),
   mrecistPdFloorMm: z.number().nonnegative().max(50).nullable().optional(),
   confirmResponse: z.boolean().optional(),
@@ -86,7 +86,7 @@ const treatment = z.strictObject({
 const presetIds = RESECTION_PRESETS.map((p) => p.id);
 
 /** The resection proposed for this patient: a named preset, or the segments to remove. */
-const resection = z
+export const resection = z
   .strictObject({
     preset: z.string().refine((s) => presetIds.includes(s), `must be one of ${presetIds.join(', ')}`).optional(),
     segments: z

@@ -6,6 +6,7 @@ import type { ResponseProtocol } from '../followup/protocol.js';
 import type { Override } from '../followup/tracks.js';
 import { lesionsFromMask } from '../lesions/components.js';
 import { parseMarks } from '../lesions/marks.js';
+import { longestInsideAxial } from '../lesions/inside-diameter.js';
 import { measureMaskLesion } from '../lesions/measures.js';
 import type { Manifest, ManifestVisit } from '../manifest/manifest.js';
 import { visitVolumetry, type VisitVolumetry } from '../remnant/volumetry.js';
@@ -125,7 +126,7 @@ async function loadVisit(
     viable = {
       components: found.lesions.map((lv, n) => {
         const m = measureMaskLesion(`V${n + 1}`, mask, lv, null);
-        return { centroidMm: m.centroidMm, longestAxialMm: m.longestAxialMm };
+        return { centroidMm: m.centroidMm, viableAxialMm: longestInsideAxial(mask, lv).lengthMm };
       }),
     };
   }

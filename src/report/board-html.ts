@@ -104,7 +104,7 @@ function visitsTable(s: BoardSummary): string {
     `<td><span class="b-cat">${esc(v.response)}</span>${v.otherResponses.length ? ` <span class="b-muted">(${v.otherResponses.map(esc).join('; ')})</span>` : ''}</td>` +
     `<td>${ids(v.newTracks)}</td><td>${ids(v.goneTracks)}</td><td${v.alertTracks.length ? ' class="b-alert"' : ''}>${ids(v.alertTracks)}</td></tr>`;
   return (
-    `<section><h2>Visits and response <span class="b-h2-note">${esc(s.criteria)}, computed from the sums of target longest axial diameters; a qualified reader confirms` +
+    `<section><h2>Visits and response <span class="b-h2-note">${esc(s.criteria)}, computed from the sums of target ${s.criteria === 'mRECIST' ? 'viable (enhancing) diameters' : 'longest axial diameters'}; a qualified reader confirms` +
     `${s.visits.some((v) => v.segmentMap !== 'imported') ? '; † map from landmarks: flat-plane approximation' : ''}</span></h2>` +
     `<table><thead><tr><th scope="col">Visit</th><th scope="col">Date</th><th scope="col" class="num">Day</th><th scope="col">Segment map</th><th scope="col" class="num">Lesions</th>` +
     `<th scope="col" class="num">Target sum mm</th><th scope="col" class="num">vs baseline</th><th scope="col" class="num">vs nadir</th><th scope="col">Response</th>` +
@@ -122,7 +122,7 @@ function cellText(c: BoardTrackCell | null): string {
   const cls = c.alert ? ' class="b-alert"' : '';
   switch (c.status) {
     case 'present':
-      return `<td${cls}>${ids(c.lesions)} ${mm(c.longestAxialMm)}</td>`;
+      return `<td${cls}>${ids(c.lesions)} ${mm(c.longestAxialMm)}${c.viableAxialMm !== undefined ? ` <span class="b-muted">viable ${mm(c.viableAxialMm)}</span>` : ''}</td>`;
     case 'gone':
       return `<td${cls}>gone</td>`;
     case 'merged':
@@ -141,7 +141,7 @@ function lesionTable(s: BoardSummary): string {
       `<td>${r.target ? 'target' : 'non-target'}${r.newAt ? `, new at ${esc(r.newAt)}` : ''}</td>${r.cells.map(cellText).join('')}</tr>`,
   );
   return (
-    `<section><h2>Lesion tracks <span class="b-h2-note">lesion id and longest axial diameter (mm) per visit; <span class="b-mark"></span>margin alert</span></h2>` +
+    `<section><h2>Lesion tracks <span class="b-h2-note">lesion id and longest axial diameter (mm) per visit${t.viable ? ', then the viable (enhancing) diameter (mm, mRECIST)' : ''}; <span class="b-mark"></span>margin alert</span></h2>` +
     `<table><thead><tr><th scope="col">Track</th><th scope="col">Segment</th><th scope="col">Role</th>${head}</tr></thead><tbody>` +
     (rows.length ? rows.join('') : `<tr><td colspan="${3 + t.visits.length}">No lesions at any visit.</td></tr>`) +
     `</tbody></table>` +

@@ -1,6 +1,7 @@
 import { bestResponseText } from '../followup/best-response.js';
 import { CAUTION } from '../caution.js';
-import { compareIds } from '../followup/ids.js';
+import { showsViable } from '../followup/followup.js';
+import { compareTrackIds } from '../followup/ids.js';
 import type { Criteria } from '../followup/response.js';
 import type { TrackStatus } from '../followup/tracks.js';
 import type { PatientRemnant } from '../remnant/for-patient.js';
@@ -55,6 +56,8 @@ export interface BoardTrackCell {
   status: TrackStatus;
   lesions: string[];
   longestAxialMm: number | null;
+  /** Viable (enhancing) diameter, mm, when the table shows viable diameters (`lesionTable.viable`); null when not given. */
+  viableAxialMm?: number | null;
   mergedInto: string | null;
   alert: boolean;
 }
@@ -151,6 +154,8 @@ export interface BoardSummary {
   lesionTable: {
     visits: { id: string; date: string }[];
     rows: BoardTrackRow[];
+    /** Cells carry the viable diameter (mRECIST, or viable measures given). */
+    viable: boolean;
     visitsLeftOut: string[];
     tracksLeftOut: string[];
   };
@@ -221,6 +226,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
   const tracksKept = ordered.slice(0, MAX_TRACK_ROWS);
   const tableVisits = keepEnds(f.visits, MAX_TABLE_VISITS);
   const alertSet = new Set(f.visits.flatMap((v) => v.marginAlerts.map((t) => `${v.id}\u0000${t}`)));
+  const viable = showsViable(f);
   const rows: BoardTrackRow[] = tracksKept.map((t) => {
     const seen = f.visits.filter((v) => t.status[v.id] === 'present');
     const lastSeen = seen[seen.length - 1];
@@ -242,6 +248,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
           status,
           lesions: lesionsOfTrack(t, v.id),
           longestAxialMm: t.longestAxialMm[v.id] ?? null,
+          ...(viable && status === 'present' ? { viableAxialMm: t.viableAxialMm?.[v.id] ?? null } : {}),
           mergedInto: t.mergedInto?.[v.id] ?? null,
           alert: alertSet.has(`${v.id}\u0000${t.id}`),
         };
@@ -335,6 +342,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
     lesionTable: {
       visits: tableVisits.kept.map((v) => ({ id: v.id, date: v.date })),
       rows,
+      viable,
       visitsLeftOut: tableVisits.left.map((v) => v.id),
       tracksLeftOut: ordered.slice(MAX_TRACK_ROWS).map((t) => t.id),
     },
@@ -353,7 +361,7 @@ export function buildBoardSummary(input: ReportInput, opts: BoardOptions): Board
 
 function boardRemnant(r: PatientRemnant): BoardRemnant {
   // Lesions are named by their track where follow-up linked one, as everywhere else on the page.
-  const label = (ids: readonly string[]) => [...new Set(ids.map((id) => r.lesionTracks[id] ?? id))].sort(compareIds);
+  const label = (ids: readonly string[]) => [...new Set(ids.map((id) => r.lesionTracks[id] ?? id))].sort(compareTrackIds);
   return {
     visit: r.visitId,
     date: r.visitDate,

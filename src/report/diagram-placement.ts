@@ -1,6 +1,6 @@
 import { isMarginAlert } from '../lesions/margin.js';
 import type { FollowupResult } from '../followup/followup.js';
-import { compareIds } from '../followup/ids.js';
+import { compareIds, compareTrackIds } from '../followup/ids.js';
 import type { SegmentName } from '../segments/segment-map.js';
 import { borderBetween, dotRadius, regionOf, slotPosition, type Point } from './diagram-layout.js';
 import { lesionsOfTrack } from './input.js';
@@ -85,7 +85,7 @@ export function placeLesions(f: FollowupResult, visits: readonly DiagramVisit[],
       slots.set(placeKey(l), list);
     }
   }
-  for (const list of slots.values()) list.sort(compareIds);
+  for (const list of slots.values()) list.sort(compareTrackIds);
 
   const visit = visits.find((v) => v.id === visitId);
   if (!visit) return [];

@@ -36,14 +36,14 @@ describe('chart series from the follow-up', () => {
   it('lesion tracks: every value as the follow-up gives it, grouped in Couinaud order', () => {
     const s = lesionSeries(f);
     expect(s.map((x) => [x.track, x.segment, x.target])).toEqual([
-      ['T3', 'III', false], ['T1', 'V', true], ['T4', 'VI', false], ['T2', 'VIII', true],
+      ['C', 'III', false], ['A', 'V', true], ['D', 'VI', false], ['B', 'VIII', true],
     ]);
-    const t1 = s.find((x) => x.track === 'T1')!;
+    const t1 = s.find((x) => x.track === 'A')!;
     expect(t1.points.map((p) => [p.visit, p.t, p.mm, p.status])).toEqual([
       ['v1', Date.UTC(2026, 0, 12), 21.5, 'present'], ['v2', Date.UTC(2026, 2, 2), 15.2, 'present'], ['v3', Date.UTC(2026, 4, 4), 19, 'present'],
     ]);
     // Gone at v3: drawn at the follow-up's 0 mm, in the segment where it was last seen.
-    expect(s.find((x) => x.track === 'T3')!.points.map((p) => [p.visit, p.mm, p.segment, p.status])).toEqual([
+    expect(s.find((x) => x.track === 'C')!.points.map((p) => [p.visit, p.mm, p.segment, p.status])).toEqual([
       ['v1', 8, 'III', 'present'], ['v2', 7, 'III', 'present'], ['v3', 0, 'III', 'gone'],
     ]);
     for (const x of s) for (const p of x.points) expect(p.mm).toBe(f.tracks.find((t) => t.id === x.track)!.longestAxialMm[p.visit]);
@@ -52,7 +52,7 @@ describe('chart series from the follow-up', () => {
   it('response: sums, categories, baseline and nadir; PR at −34.4% and PD for the new lesion (RECIST 1.1)', () => {
     const r = responseData(f);
     expect(r.criteria).toBe('RECIST 1.1');
-    expect(r.targets).toEqual(['T1', 'T2']);
+    expect(r.targets).toEqual(['A', 'B']);
     expect(r.points.map((p) => [p.visit, p.sumMm, p.category, p.changeFromBaselinePct])).toEqual([
       ['v1', 39.2, null, 0], ['v2', 25.7, 'PR', -34.4], ['v3', 29.5, 'PD', -24.7],
     ]);
@@ -95,17 +95,17 @@ describe('chart series from the follow-up', () => {
     const lr = (l: FollowupLesion, nearest: SegmentName | null): LesionResult =>
       ({ ...l, viableAxialMm: undefined, marginMm: l.marginMm ?? null, nearestOtherSegment: nearest, segmentFractions: {}, shortAxisMm: 0, source: 'mask', max3dMm: null, meanValue: null, longestAxialEndpointsMm: null, voxelCount: 0, segmentWarning: null });
     const visits = series.map((v) => ({ id: v.id, date: v.date, analysis: { lesions: v.lesions.map((l) => lr(l, l.segment === 'VI' ? 'V' : 'IVa')) } }));
-    expect(alertRows(f, visits).map((r) => [r.visit, r.lesion, r.track, r.segment, r.nearestOtherSegment, r.marginMm])).toEqual([
-      ['v3', 'L4', 'T4', 'VI', 'V', 0],
-      ['v2', 'L2', 'T2', 'VIII', 'IVa', 4.2],
+    expect(alertRows(f, visits).map((r) => [r.visit, r.lesion, r.track, r.target, r.segment, r.nearestOtherSegment, r.marginMm])).toEqual([
+      ['v3', 'L4', 'D', false, 'VI', 'V', 0],
+      ['v2', 'L2', 'B', true, 'VIII', 'IVa', 4.2],
     ]);
     // The same lesions the follow-up lists as alerts, visit by visit (track ids).
-    expect(f.visits.map((v) => v.marginAlerts)).toEqual([[], ['T2'], ['T4']]);
+    expect(f.visits.map((v) => v.marginAlerts)).toEqual([[], ['B'], ['D']]);
     // At the set margin is an alert (≤); just beyond it is not.
     expect(belowMargin({ marginMm: 10, marginAlert: false }, 10)).toBe(true);
     expect(belowMargin({ marginMm: 10.1, marginAlert: true }, 10)).toBe(false);
     expect(belowMargin({ marginAlert: true }, 10)).toBe(true);
-    expect(trackOfLesion(f).get('v3/L4')).toBe('T4');
+    expect(trackOfLesion(f).get('v3/L4')).toBe('D');
   });
 });
 

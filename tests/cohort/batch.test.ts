@@ -92,6 +92,8 @@ describe('falciform batch', () => {
     }
     // Every TR record of a lesion links to its TU record.
     const tuKeys = new Set(tu.map((r) => `${r.USUBJID}/${r.TULNKID}`));
+    // TU link ids are the lettered track ids (A, B, …), never a number that reads as a target's rank.
+    for (const r of tu) expect(r.TULNKID).toMatch(/^[A-Z]+$/);
     for (const r of tr.filter((x) => x.TRLNKID !== '')) expect(tuKeys.has(`${r.USUBJID}/${r.TRLNKID}`)).toBe(true);
     // SUMDIAM is the sum of the targets' LDIAM at the visit (RECIST 1.1 section 4.3.2, sum of diameters).
     for (const sum of tr.filter((x) => x.TRTESTCD === 'SUMDIAM' && x.TRSTAT === '')) {

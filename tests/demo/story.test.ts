@@ -8,7 +8,8 @@ import { describe, expect, it } from 'vitest';
  * The demo scenario as designed (demo-data/scenario.ts), checked through the command line a user
  * would run: `falciform followup demo-data/<patient>/manifest.json --json`. Response rules are
  * RECIST 1.1 (Eisenhauer et al., Eur J Cancer 2009;45:228-247) and mRECIST (Lencioni and Llovet,
- * Semin Liver Dis 2010;30:52-60); the margin rule is the brief's (alert below 10 mm).
+ * Semin Liver Dis 2010;30:52-60); the margin rule is docs/formats.md's (to the border surface,
+ * alert at or within 10 mm).
  */
 interface Followup {
   criteria: string;
@@ -41,6 +42,8 @@ describe('demo scenario, as designed', () => {
     expect(f.tracks).toHaveLength(3);
     for (const t of f.tracks) expect(Object.values(t.segments)).toEqual(Array(4).fill(t.segments.v1));
     expect(f.visits.flatMap((v) => [...v.newLesions, ...v.goneLesions, ...v.marginAlerts])).toEqual([]);
+    // Tracks are lettered in order of first appearance; the target flag is said beside the id.
+    expect(f.tracks.map((t) => [t.id, t.segments.v1, t.target])).toEqual([['A', 'V', true], ['B', 'VII', true], ['C', 'II', false]]);
   });
 
   it('DEMO-0002: HCC in VIII ablated (mRECIST CR, RECIST not), then a new lesion in VI (PD)', () => {

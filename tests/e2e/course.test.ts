@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { startWebServer, type WebServer } from '../../main/web-server.js';
 import type { FollowupResult } from '../../src/followup/followup.js';
+import { compareTrackIds } from '../../src/followup/ids.js';
 import { launchChromium, watchErrors } from './browser.js';
 
 // The course tabs on the demo patients in Chromium: the charts plot exactly what `falciform followup`
@@ -119,6 +120,42 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     await page.screenshot({ path: 'test-results/course-DEMO-0001.png', fullPage: true });
   });
 
+  it('DEMO-0001: each lesion line is labelled with its track id at its last point, the labels nudged apart', async () => {
+    const fu = cliFollowup('DEMO-0001');
+    await openTab('DEMO-0001', 'course', 'chart-response');
+    const lesions = await points('lesion', ['track', 'visit']);
+    const labels = await page.getByTestId('line-end-label').evaluateAll((els) => els.map((g) => {
+      const text = g.querySelector('text')!;
+      const box = (text as SVGTextElement).getBBox();
+      return {
+        track: g.getAttribute('data-track')!, text: text.textContent, pointY: Number(g.getAttribute('data-point-y')),
+        x: box.x, y: box.y, width: box.width, height: box.height, leader: g.querySelector('line') !== null,
+      };
+    }));
+    expect(labels.map((l) => l.track).sort()).toEqual(fu.tracks.map((t) => t.id).sort());
+    const lastVisit = (track: string) => Object.keys(fu.tracks.find((t) => t.id === track)!.longestAxialMm).pop()!;
+    for (const l of labels) {
+      expect(l.text).toBe(l.track);
+      // At the line's last point: right of it, and at its height unless nudged (then with a leader).
+      const end = lesions.find((p) => p.track === l.track && p.visit === lastVisit(l.track))!;
+      expect(Math.abs(l.pointY - (end.cy as number))).toBeLessThan(0.5);
+      expect(l.x).toBeGreaterThan(end.cx as number);
+      const centre = l.y + l.height / 2;
+      if (!l.leader) expect(Math.abs(centre - l.pointY)).toBeLessThan(2);
+    }
+    // No two labels overlap (their text boxes, as the browser laid them out).
+    for (const a of labels) {
+      for (const b of labels) {
+        if (a === b) continue;
+        const apart = a.x + a.width <= b.x || b.x + b.width <= a.x || a.y + a.height <= b.y || b.y + b.height <= a.y;
+        expect(apart, `${a.track} and ${b.track}`).toBe(true);
+      }
+    }
+    // DEMO-0001's A and B end 2 mm apart (12 and 14 mm at v4), closer than a label's height: nudged.
+    expect(labels.filter((l) => l.leader).map((l) => l.track).sort()).toEqual(['A', 'B']);
+    await page.getByTestId('chart-lesions').screenshot({ path: 'test-results/course-lesion-labels.png' });
+  });
+
   it('DEMO-0001: a treatment event added on the course tab appears on every chart, and goes when deleted', async () => {
     await page.getByTestId('treatment-date').fill('2026-05-18');
     await page.getByTestId('treatment-kind').selectOption('resection');
@@ -199,8 +236,8 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     const trackIds = () => page.getByTestId('track-row').evaluateAll((els) => els.map((e) => e.getAttribute('data-track')));
     const trail = () => page.getByTestId('trail-row').allTextContents();
     const before = await trackIds();
-    const lesion = cliFollowup('DEMO-0001').tracks.find((t) => t.id === 'T1')!.lesions.v2;
-    expect(await cell('T1', 'v2').getAttribute('data-lesion')).toBe(lesion);
+    const lesion = cliFollowup('DEMO-0001').tracks.find((t) => t.id === 'A')!.lesions.v2;
+    expect(await cell('A', 'v2').getAttribute('data-lesion')).toBe(lesion);
     const chip = page.locator(`[data-testid="lesion-chip"][data-visit="v2"][data-lesion="${lesion}"]`);
     // The treatment event added and deleted on the course tab is in the trail, newest first, its values labelled.
     expect((await trail()).slice(0, 2)).toEqual([
@@ -208,29 +245,29 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
       expect.stringMatching(/treatment added.*date 2026-05-18; kind resection; label Resection, segment II/),
     ]);
 
-    // Unlink T1's lesion at v2 from T1: it starts a track of its own, T1 is gone at v2.
+    // Unlink A's lesion at v2 from A: it starts a track of its own, A is gone at v2.
     await chip.click();
     await page.getByTestId('unlink-lesion').click();
-    await expect.poll(() => cell('T1', 'v2').getAttribute('data-status'), { timeout: 90_000 }).toBe('gone');
+    await expect.poll(() => cell('A', 'v2').getAttribute('data-status'), { timeout: 90_000 }).toBe('gone');
     await page.getByTestId('analysis-progress').waitFor({ state: 'detached', timeout: 90_000 });
     const after = await trackIds();
     expect(after).toHaveLength(before.length + 1);
     const fresh = after.find((t) => !before.includes(t))!;
     expect(await cell(fresh, 'v2').getAttribute('data-lesion')).toBe(lesion);
-    expect((await trail())[0]).toMatch(new RegExp(`correction: unlink v2/${lesion}.*T1.*not T1`));
+    expect((await trail())[0]).toMatch(new RegExp(`correction: unlink v2/${lesion}.*A.*not A`));
     expect(await page.getByTestId('override-row').count()).toBe(1);
     await page.screenshot({ path: 'test-results/tracks-unlinked.png', fullPage: true });
 
-    // Link it back to T1: the original tracks return, the link marked as the reader's.
+    // Link it back to A: the original tracks return, the link marked as the reader's.
     await chip.click();
-    await page.getByTestId('link-track').selectOption('T1');
+    await page.getByTestId('link-track').selectOption('A');
     await page.getByTestId('link-lesion').click();
-    await expect.poll(() => cell('T1', 'v2').getAttribute('data-lesion'), { timeout: 90_000 }).toBe(lesion);
+    await expect.poll(() => cell('A', 'v2').getAttribute('data-lesion'), { timeout: 90_000 }).toBe(lesion);
     await page.getByTestId('analysis-progress').waitFor({ state: 'detached', timeout: 90_000 });
     expect(await trackIds()).toEqual(before);
-    expect(await cell('T1', 'v2').textContent()).toContain('linked by reader');
+    expect(await cell('A', 'v2').textContent()).toContain('linked by reader');
     const entries = await trail();
-    expect(entries[0]).toMatch(new RegExp(`correction: link v2/${lesion}.*${fresh}.*T1`));
+    expect(entries[0]).toMatch(new RegExp(`correction: link v2/${lesion}.*${fresh}.*A`));
     expect(entries[1]).toMatch(new RegExp(`correction removed: unlink v2/${lesion}`));
     await page.screenshot({ path: 'test-results/tracks-linked.png', fullPage: true });
 
@@ -246,7 +283,7 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     expect(fu.targets.tracks).toHaveLength(2);
     await openTab('DEMO-0003', 'tracks', 'track-table');
     const list = page.getByTestId('target-list');
-    expect(await list.textContent()).toBe(fu.targets.tracks.join(', '));
+    expect(await list.textContent()).toBe([...fu.targets.tracks].sort(compareTrackIds).join(', '));
     const [keep, drop] = fu.targets.tracks;
     await page.getByTestId(`target-${drop}`).uncheck();
     await expect.poll(() => list.textContent(), { timeout: 90_000 }).toBe(keep);
@@ -254,12 +291,13 @@ describe('course of disease, alerts, diagram and track edits in the browser', ()
     await expect.poll(() => page.getByText('chosen by a reader').count(), { timeout: 90_000 }).toBe(1);
     // Two ticked is the most: RECIST 1.1 takes at most two targets per organ (Eisenhauer et al. 2009).
     await page.getByTestId(`target-${drop}`).check();
-    await expect.poll(() => list.textContent(), { timeout: 90_000 }).toBe(`${keep}, ${drop}`);
-    const unticked = page.locator('[data-testid^="target-T"]:not(:checked)');
+    // Listed in track order (A before B), whatever order they were ticked in.
+    await expect.poll(() => list.textContent(), { timeout: 90_000 }).toBe([keep, drop].sort(compareTrackIds).join(', '));
+    const unticked = page.locator('[data-testid="track-table"] input[type="checkbox"]:not(:checked)');
     for (const box of await unticked.all()) expect(await box.isDisabled()).toBe(true);
     await page.getByTestId('targets-automatic').click();
     await expect.poll(() => page.getByTestId('targets-automatic').count(), { timeout: 90_000 }).toBe(0);
-    expect(await list.textContent()).toBe(fu.targets.tracks.join(', '));
+    expect(await list.textContent()).toBe([...fu.targets.tracks].sort(compareTrackIds).join(', '));
     expect(errors).toEqual([]);
   });
 });

@@ -162,4 +162,28 @@ describe('grow from a click', () => {
     expect(await page.getByTestId('edit-notice').textContent()).toMatch(/^Undone: erased a 10 mm ball/);
     expect(errors).toEqual([]);
   });
+
+  it('erases along a fast drag as one stroke: no gaps, one undo step', async () => {
+    const liverBefore = Number(await page.getByTestId('liver-volume').textContent());
+    await page.getByTestId('brush-radius').fill('5');
+    await page.getByTestId('brush-erase').click();
+    const inLiver = await middleWhere((t) => /segment (V|VI|VII|VIII)\b/.test(t) && !/lesion /.test(t));
+    // A fast drag: two pointer moves 30 px apart, far more than a 5 mm ball on screen.
+    await page.mouse.move(inLiver.x - 30, inLiver.y);
+    await page.mouse.down();
+    await page.mouse.move(inLiver.x, inLiver.y, { steps: 1 });
+    await page.mouse.move(inLiver.x + 30, inLiver.y, { steps: 1 });
+    await page.mouse.up();
+    await expect.poll(async () => (await page.getByTestId('edit-notice').textContent()) ?? '', { timeout: 60_000 }).toMatch(/Brush: erased a stroke of \d+ 5 mm balls from the liver mask/);
+    await expect.poll(async () => Number(await page.getByTestId('liver-volume').textContent()), { timeout: 120_000 }).toBeLessThan(liverBefore);
+    const erased = liverBefore - Number(await page.getByTestId('liver-volume').textContent());
+    // More than one 5 mm ball (0.52 mL, 4/3·π·5³ mm³): the stroke's length is painted, not just its ends.
+    expect(erased).toBeGreaterThan(3 * 0.52);
+    await page.keyboard.press('Escape');
+    await page.screenshot({ path: 'test-results/grow-brush-stroke.png' });
+    await page.getByTestId('mask-undo').click();
+    await expect.poll(async () => Number(await page.getByTestId('liver-volume').textContent()), { timeout: 120_000 }).toBe(liverBefore);
+    expect(await page.getByTestId('edit-notice').textContent()).toMatch(/^Undone: erased a stroke/);
+    expect(errors).toEqual([]);
+  });
 });

@@ -91,8 +91,8 @@ describe('remnant planning in the browser', () => {
     await page.getByTestId('volumetry-table').waitFor({ timeout: 60_000 });
     expect(await page.getByTestId('estimate-flag').count()).toBe(0); // lesion masks: measured tumour
     await page.getByTestId('remnant-preset').selectOption({ label: await optionLabel(page, 'Left lateral sectionectomy') });
-    // T1 lies in VIII with a margin alert at the latest visit (the demo story); VIII stays.
-    expect(await page.getByTestId('remnant-alerts').textContent()).toMatch(/T1 \(L1\) in VIII, .* mm from .*: would stay in the remnant/);
+    // A lies in VIII with a margin alert at the latest visit (the demo story); VIII stays.
+    expect(await page.getByTestId('remnant-alerts').textContent()).toMatch(/A \(L1\) in VIII, .* mm from .*: would stay in the remnant/);
 
     // Body surface area by Mosteller (N Engl J Med 1987;317:1098): √(180 × 90 / 3600) = 2.12 m².
     await page.getByRole('button', { name: 'Change' }).click();

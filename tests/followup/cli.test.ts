@@ -64,7 +64,7 @@ beforeAll(async () => {
     { id: 'v2', date: '2026-03-02', scan: 'v2/scan.nii.gz', liver: 'v2/liver.nii.gz', landmarks: 'v2/landmarks.json', lesions: 'v2/lesions.nii.gz' },
   ];
   writeFileSync(join(dir, 'manifest.json'), JSON.stringify({ patient: { id: 'TEST-0001' }, marginMm: 10, visits: [visits[1], visits[0]] }));
-  writeFileSync(join(dir, 'bad-target.json'), JSON.stringify({ patient: { id: 'TEST-0001' }, visits, targets: ['T9'] }));
+  writeFileSync(join(dir, 'bad-target.json'), JSON.stringify({ patient: { id: 'TEST-0001' }, visits, targets: ['I'] }));
   writeFileSync(join(dir, 'missing.json'), JSON.stringify({ patient: { id: 'TEST-0001' }, visits: [{ ...visits[0], lesions: 'v1/nothing.nii.gz' }] }));
 }, 120_000);
 
@@ -87,7 +87,7 @@ describe('falciform followup', () => {
     // Both lesions are followed; the third is new.
     expect(doc.tracks).toHaveLength(3);
     expect(doc.tracks.slice(0, 2).every((t: { lesions: object }) => Object.keys(t.lesions).join() === 'v1,v2')).toBe(true);
-    expect(v2.newLesions).toEqual(['T3']);
+    expect(v2.newLesions).toEqual(['C']);
     expect(v2.goneLesions).toEqual([]);
     // Targets shrank from about 20 + 15 mm to about 12 + 9 mm (PR by targets). The new lesion is
     // about 9 mm, under the 10 mm default: equivocal until a reader calls it (RECIST 1.1 section
@@ -95,7 +95,7 @@ describe('falciform followup', () => {
     expect(v2.response.criteria).toBe('RECIST 1.1');
     expect(v2.response.changeFromBaselinePct).toBeLessThan(-30);
     expect(v2.response.targetCategory).toBe('PR');
-    expect(v2.equivocalNewLesions).toEqual(['T3']);
+    expect(v2.equivocalNewLesions).toEqual(['C']);
     expect(v2.readerCalls.outsideLiver).toBe('not-assessed');
     expect(v2.response.category).toBe('PR');
     expect(doc.scope).toMatch(/assesses the liver/);
@@ -105,7 +105,7 @@ describe('falciform followup', () => {
     const called = falciform('followup', join(dir, 'manifest.json'), '--json', '--new-lesion', `v2:${doc.tracks[2].lesions.v2}=unequivocal`, '--outside-liver', 'v2=none');
     expect(called.stderr).toBe('');
     const v2c = JSON.parse(called.stdout).visits[1];
-    expect(v2c.unequivocalNewLesions).toEqual([{ track: 'T3', from: 'reader' }]);
+    expect(v2c.unequivocalNewLesions).toEqual([{ track: 'C', from: 'reader' }]);
     expect(v2c.readerCalls.outsideLiver).toBe('none');
     expect(v2c.response.category).toBe('PD');
     expect(JSON.parse(called.stdout).bestResponse).toMatchObject({ category: 'PD', progression: { visit: 'v2', date: '2026-03-02' } });
@@ -120,7 +120,7 @@ describe('falciform followup', () => {
     const r = falciform('followup', join(dir, 'manifest.json'));
     expect(r.status).toBe(0);
     expect(r.stdout).toMatch(/v2 {2}2026-03-02 {2}PR/);
-    expect(r.stdout).toMatch(/equivocal new T3 \(followed, not PD\)/);
+    expect(r.stdout).toMatch(/equivocal new C \(followed, not PD\)/);
     expect(r.stdout).toMatch(/Best overall response: PR; no progression/);
     expect(r.stdout).toMatch(/Falciform assesses the liver/);
     expect(r.stdout).toMatch(/not a medical device/);
@@ -130,7 +130,7 @@ describe('falciform followup', () => {
     const bad = falciform('followup', join(dir, 'bad-target.json'), '--json');
     expect(bad.status).toBe(3);
     expect(bad.stdout).toBe('');
-    expect(bad.stderr).toMatch(/bad-target\.json: field targets: T9/);
+    expect(bad.stderr).toMatch(/bad-target\.json: field targets: I/);
     expect(bad.stderr.trim().split('\n')).toHaveLength(1);
     const missing = falciform('followup', join(dir, 'missing.json'), '--json');
     expect(missing.status).toBe(3);

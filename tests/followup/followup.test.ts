@@ -25,14 +25,14 @@ describe('follow-up of a patient', () => {
       { marginMm: 10 },
     );
     expect(r.visits.map((v) => v.id)).toEqual(['v1', 'v2']);
-    expect(r.targets).toEqual({ tracks: ['T1', 'T2'], source: 'default' });
+    expect(r.targets).toEqual({ tracks: ['A', 'B'], source: 'default' });
     expect(r.visits[1].response).toMatchObject({
       criteria: 'RECIST 1.1', targetSumMm: 25.7, baselineSumMm: 39.2, nadirSumMm: 39.2,
       changeFromBaselinePct: -34.4, changeFromNadirPct: -34.4, category: 'PR',
     });
-    expect(r.visits[1]).toMatchObject({ newLesions: [], goneLesions: [], marginAlerts: ['T2'], overall: 'PR' });
-    expect(r.visits[1].nonTarget).toMatchObject({ category: 'non-CR/non-PD', tracks: ['T3'] });
-    expect(r.tracks[0]).toMatchObject({ id: 'T1', lesions: { v1: 'L1', v2: 'L1' }, segments: { v1: 'V', v2: 'V' }, longestAxialMm: { v1: 21.5, v2: 15.2 }, target: true });
+    expect(r.visits[1]).toMatchObject({ newLesions: [], goneLesions: [], marginAlerts: ['B'], overall: 'PR' });
+    expect(r.visits[1].nonTarget).toMatchObject({ category: 'non-CR/non-PD', tracks: ['C'] });
+    expect(r.tracks[0]).toMatchObject({ id: 'A', lesions: { v1: 'L1', v2: 'L1' }, segments: { v1: 'V', v2: 'V' }, longestAxialMm: { v1: 21.5, v2: 15.2 }, target: true });
     expect(r.tracks[2].target).toBe(false);
     expect(r.burden.filter((b) => b.visit === 'v1')).toEqual([
       { visit: 'v1', segment: 'III', count: 1, sumLongestAxialMm: 8, volumeMl: 0.26 },
@@ -89,8 +89,8 @@ describe('follow-up of a patient', () => {
   it('sums a split target\'s fragments and measures a coalesced lesion whole', () => {
     // RECIST 1.1 section 4.3.2 (from memory): fragments' longest diameters are added; lesions that
     // coalesce are measured as one, the others recorded 0 mm.
-    // T1 40 mm splits into 14 + 16 = 30 mm; T2 (15 mm) and T3 (12 mm) coalesce into 30 mm.
-    // Baseline sum (T1, T2 the two largest) = 40 + 15 = 55; v2 = 30 + 30 = 60: +9.1% → SD.
+    // A 40 mm splits into 14 + 16 = 30 mm; B (15 mm) and C (12 mm) coalesce into 30 mm.
+    // Baseline sum (A, B the two largest) = 40 + 15 = 55; v2 = 30 + 30 = 60: +9.1% → SD.
     const r = runFollowup(
       [
         visit('v1', '2026-01-01', [lesion('L1', [0, 0, 0], 40), lesion('L2', [100, 0, 0], 15), lesion('L3', [118, 0, 0], 12)]),
@@ -98,13 +98,13 @@ describe('follow-up of a patient', () => {
       ],
       { marginMm: 10 },
     );
-    expect(r.targets.tracks).toEqual(['T1', 'T2']);
+    expect(r.targets.tracks).toEqual(['A', 'B']);
     const [t1, t2, t3] = r.tracks;
     expect(t1.fragments).toEqual({ v2: ['L1', 'L2'] });
     expect(t1.longestAxialMm.v2).toBe(30);
     expect(t2.lesions.v2).toBe('L3');
     expect(t3.status.v2).toBe('merged');
-    expect(t3.mergedInto).toEqual({ v2: 'T2' });
+    expect(t3.mergedInto).toEqual({ v2: 'B' });
     expect(t3.longestAxialMm.v2).toBe(0);
     expect(r.visits[1].response).toMatchObject({ targetSumMm: 60, baselineSumMm: 55, changeFromBaselinePct: 9, category: 'SD' });
     expect(r.visits[1].goneLesions).toEqual([]);
@@ -118,10 +118,10 @@ describe('follow-up of a patient', () => {
       ],
       { marginMm: 10 },
     );
-    expect(r.visits[1]).toMatchObject({ newLesions: ['T3'], goneLesions: ['T2'], unconfirmedGone: ['T2'] });
+    expect(r.visits[1]).toMatchObject({ newLesions: ['C'], goneLesions: ['B'], unconfirmedGone: ['B'] });
     // The new lesion is 6 mm, under the 10 mm default: equivocal, followed, not PD (RECIST 1.1
     // section 4.3.5, from memory: a new lesion must be unequivocal; small size is the example given).
-    expect(r.visits[1]).toMatchObject({ equivocalNewLesions: ['T3'], unequivocalNewLesions: [] });
+    expect(r.visits[1]).toMatchObject({ equivocalNewLesions: ['C'], unequivocalNewLesions: [] });
     expect(r.visits[1].response).toMatchObject({ targetCategory: 'PR', newLesion: false, category: 'PR' });
     // Called unequivocal by the reader: targets 30 → 20 mm (−33.3%, PR) but a new lesion → PD (table 1).
     const called = runFollowup(
@@ -131,7 +131,7 @@ describe('follow-up of a patient', () => {
       ],
       { marginMm: 10 },
     );
-    expect(called.visits[1]).toMatchObject({ unequivocalNewLesions: [{ track: 'T3', from: 'reader' }], equivocalNewLesions: [] });
+    expect(called.visits[1]).toMatchObject({ unequivocalNewLesions: [{ track: 'C', from: 'reader' }], equivocalNewLesions: [] });
     expect(called.visits[1].response).toMatchObject({ targetCategory: 'PR', newLesion: true, category: 'PD' });
     expect(r.tracks[0]).toMatchObject({ segmentChanged: true, segmentChanges: [{ visit: 'v2', from: 'V', to: 'VIII' }] });
     // Burden keeps a row for every segment seen at any visit, zeros included.
@@ -143,20 +143,22 @@ describe('follow-up of a patient', () => {
       visit('v1', '2026-01-01', [lesion('L1', [0, 0, 0], 30), lesion('L2', [60, 0, 0], 25), lesion('L3', [0, 60, 0], 20)]),
       visit('v2', '2026-02-01', [lesion('L1', [0, 0, 0], 30), lesion('L2', [60, 0, 0], 25), lesion('L3', [0, 60, 0], 20)]),
     ];
-    const r = runFollowup(visits, { marginMm: 10, targets: ['T3'] });
-    expect(r.targets).toEqual({ tracks: ['T3'], source: 'named' });
+    const r = runFollowup(visits, { marginMm: 10, targets: ['C'] });
+    expect(r.targets).toEqual({ tracks: ['C'], source: 'named' });
     expect(r.visits[0].response.baselineSumMm).toBe(20);
     expect(r.tracks.map((t) => t.target)).toEqual([false, false, true]);
     try {
-      runFollowup(visits, { marginMm: 10, targets: ['T9'] });
+      runFollowup(visits, { marginMm: 10, targets: ['I'] });
       expect.unreachable();
     } catch (e) {
       expect(isFalciformError(e)).toBe(true);
-      expect((e as Error).message).toMatch(/T9.*baseline/);
+      expect((e as Error).message).toMatch(/I is not a lesion track seen at the baseline visit \(tracks there: A, B, C\)/);
     }
+    // A manifest or store written when tracks were numbered names them "T1", "T2", …: read as A, B, …
+    expect(runFollowup(visits, { marginMm: 10, targets: ['T3'] }).targets).toEqual({ tracks: ['C'], source: 'named' });
     // One rule for the command line and the app (RECIST 1.1 section 4.2, at most two targets per
     // organ, from memory; the liver is one organ): more than two named is refused.
-    expect(() => runFollowup(visits, { marginMm: 10, targets: ['T1', 'T2', 'T3'] })).toThrow(/at most 2 per organ/);
+    expect(() => runFollowup(visits, { marginMm: 10, targets: ['A', 'B', 'C'] })).toThrow(/at most 2 per organ/);
   });
 
   it('makes non-target progression PD only when a reader says so', () => {
@@ -171,7 +173,7 @@ describe('follow-up of a patient', () => {
 
   it('recomputes margin alerts against the follow-up margin when lesions carry their margin', () => {
     const r = runFollowup([visit('v1', '2026-01-01', [lesion('L1', [0, 0, 0], 20, 'V', { marginMm: 7, marginAlert: false })])], { marginMm: 8 });
-    expect(r.visits[0].marginAlerts).toEqual(['T1']);
+    expect(r.visits[0].marginAlerts).toEqual(['A']);
   });
 
   it('calls a target outside a later scan\'s field not evaluable', () => {
@@ -185,7 +187,7 @@ describe('follow-up of a patient', () => {
       ],
       { marginMm: 10 },
     );
-    expect(r.visits[1].notEvaluable).toEqual(['T2']);
+    expect(r.visits[1].notEvaluable).toEqual(['B']);
     expect(r.visits[1].response.category).toBe('NE');
   });
 });

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { mrecistTargetCategory, selectViableTargets, viableFromComponents } from '../../src/followup/mrecist.js';
-import { runFollowup, type FollowupLesion, type FollowupVisit } from '../../src/followup/followup.js';
+import { runFollowup, showsViable, type FollowupLesion, type FollowupVisit } from '../../src/followup/followup.js';
 
 // mRECIST for HCC: Lencioni and Llovet, Semin Liver Dis 2010;30:52-60 (recalled from memory): the
 // RECIST response categories measured on the longest diameter of viable tumour, i.e. tumour that
@@ -35,12 +35,36 @@ describe('mRECIST target categories', () => {
     // Source: mRECIST target lesions must be RECIST-measurable and show intratumoral arterial enhancement.
     expect(
       selectViableTargets([
-        { id: 'T1', longestMm: 50, measurable: true, viableMm: 0 },
-        { id: 'T2', longestMm: 25, measurable: true, viableMm: 18 },
-        { id: 'T3', longestMm: 30, measurable: true, viableMm: 22 },
-        { id: 'T4', longestMm: 8, measurable: false, viableMm: 8 },
+        { id: 'A', longestMm: 50, measurable: true, viableMm: 0 },
+        { id: 'B', longestMm: 25, measurable: true, viableMm: 18 },
+        { id: 'C', longestMm: 30, measurable: true, viableMm: 22 },
+        { id: 'D', longestMm: 8, measurable: false, viableMm: 8 },
       ]),
-    ).toEqual(['T3', 'T2']);
+    ).toEqual(['C', 'B']);
+  });
+
+  it('a tiny viable focus does not qualify a lesion as a target, however large the lesion', () => {
+    // Source: mRECIST target lesions "can be accurately measured in at least one dimension as 1 cm or
+    // more" and show intratumoral arterial enhancement (Lencioni and Llovet 2010, from memory); the
+    // measure is the viable diameter, so a 60 mm lesion with a 6 mm enhancing focus is no target.
+    expect(
+      selectViableTargets([
+        { id: 'T1', longestMm: 60, measurable: true, viableMm: 6 },
+        { id: 'T2', longestMm: 45, measurable: true, viableMm: 9.9 },
+        { id: 'T3', longestMm: 14, measurable: true, viableMm: 10 },
+      ]),
+    ).toEqual(['T3']);
+    // Through the follow-up: the 60 mm lesion is left out, the 14 mm one with 10 mm viable is the target.
+    const r = runFollowup(
+      [
+        visit('v1', '2026-01-10', [lesion('M1', [-60, 10, 0], 60, 6), lesion('M2', [40, 0, 0], 14, 10)]),
+        visit('v2', '2026-03-10', [lesion('M1', [-60, 10, 0], 60, 6), lesion('M2', [40, 0, 0], 14, 10)]),
+      ],
+      { marginMm: 10, criteria: 'mRECIST' },
+    );
+    const target = r.tracks.filter((t) => t.target).map((t) => t.lesions.v1);
+    expect(target).toEqual(['M2']);
+    expect(r.visits[0].response.baselineSumMm).toBe(10);
   });
 
   it('gives viable-mask regions to the lesion that holds them, longest region per lesion', () => {
@@ -50,9 +74,9 @@ describe('mRECIST target categories', () => {
         { id: 'L2', centroidMm: [100, 0, 0], longestAxialMm: 20 },
       ],
       [
-        { centroidMm: [10, 0, 0], longestAxialMm: 12 },
-        { centroidMm: [-8, 5, 0], longestAxialMm: 15 },
-        { centroidMm: [200, 0, 0], longestAxialMm: 9 },
+        { centroidMm: [10, 0, 0], viableAxialMm: 12 },
+        { centroidMm: [-8, 5, 0], viableAxialMm: 15 },
+        { centroidMm: [200, 0, 0], viableAxialMm: 9 },
       ],
     );
     expect(viable.get('L1')).toBe(15);
@@ -80,6 +104,9 @@ describe('mRECIST through the follow-up', () => {
     expect(recist[1]).toMatchObject({ targetSumMm: 38, changeFromBaselinePct: -5, category: 'SD' });
     expect(recist[2].category).toBe('SD');
     expect(r.tracks[0].viableAxialMm).toEqual({ v1: 32, v2: 12, v3: 0 });
+    // Per visit, per lesion, for the tables that list lesions.
+    expect(r.visits.map((v) => v.viableAxialMm)).toEqual([{ M1: 32 }, { M1: 12 }, { M1: 0 }]);
+    expect(showsViable(r)).toBe(true);
   });
 
   it('is not evaluable where a later visit gives no viable diameter', () => {
@@ -97,6 +124,9 @@ describe('mRECIST through the follow-up', () => {
     const r = runFollowup(visits, { marginMm: 10, criteria: 'mRECIST' });
     expect(r.criteria).toBe('RECIST 1.1');
     expect(r.warnings.join(' ')).toMatch(/mRECIST/);
+    // No viable measure anywhere and RECIST 1.1 in force: no viable column anywhere.
+    expect(showsViable(r)).toBe(false);
+    expect(r.visits.every((v) => v.viableAxialMm === undefined)).toBe(true);
     expect(r.visits[1].otherResponses).toHaveLength(0);
   });
 });

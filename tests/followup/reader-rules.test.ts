@@ -31,17 +31,17 @@ describe('a target that coalesces with a non-target (RECIST 1.1 section 4.3.2, l
 
   it('target lower-numbered than the non-target: the target keeps the lesion', () => {
     const r = run(true);
-    expect(r.targets.tracks).toEqual(['T1', 'T2']);
+    expect(r.targets.tracks).toEqual(['A', 'B']);
     expect(r.tracks[2].status.v2).toBe('merged');
-    expect(r.visits[1].response.targets).toEqual([{ track: 'T1', recordedMm: 40 }, { track: 'T2', recordedMm: 30 }]);
+    expect(r.visits[1].response.targets).toEqual([{ track: 'A', recordedMm: 40 }, { track: 'B', recordedMm: 30 }]);
     expect(r.visits[1].response).toMatchObject({ targetSumMm: 70, changeFromBaselinePct: 27.2, targetCategory: 'PD' });
   });
 
   it('target higher-numbered: merged into the non-target, still recorded with the whole lesion', () => {
     const r = run(false);
-    expect(r.targets.tracks).toEqual(['T1', 'T3']);
-    expect(r.tracks[2]).toMatchObject({ status: { v2: 'merged' }, mergedInto: { v2: 'T2' } });
-    expect(r.visits[1].response.targets).toEqual([{ track: 'T1', recordedMm: 40 }, { track: 'T3', recordedMm: 30 }]);
+    expect(r.targets.tracks).toEqual(['A', 'C']);
+    expect(r.tracks[2]).toMatchObject({ status: { v2: 'merged' }, mergedInto: { v2: 'B' } });
+    expect(r.visits[1].response.targets).toEqual([{ track: 'A', recordedMm: 40 }, { track: 'C', recordedMm: 30 }]);
     expect(r.visits[1].response).toMatchObject({ targetSumMm: 70, changeFromBaselinePct: 27.2, targetCategory: 'PD' });
   });
 });
@@ -57,15 +57,15 @@ describe('a target missing from a mask inside the scanned field', () => {
     // the target response NE unless the rest already prove PD. A lesion a mask missed has not been
     // shown to have disappeared.
     const r = runFollowup(visits(), { marginMm: 10 });
-    expect(r.visits[1]).toMatchObject({ goneLesions: ['T2'], unconfirmedGone: ['T2'] });
+    expect(r.visits[1]).toMatchObject({ goneLesions: ['B'], unconfirmedGone: ['B'] });
     expect(r.visits[1].response).toMatchObject({ targetSumComplete: false, changeFromBaselinePct: null, changeFromNadirPct: null, targetCategory: 'NE', category: 'NE' });
-    expect(r.visits[1].response.targets[1]).toEqual({ track: 'T2', recordedMm: null });
+    expect(r.visits[1].response.targets[1]).toEqual({ track: 'B', recordedMm: null });
     expect(targetSumText(r.visits[1].response)).toBe('NE');
   });
 
   it('is 0 mm once the reader confirms it gone (by track id or by its baseline lesion)', () => {
     // 30 + 20 = 50 → 28 + 0 = 28: −44% → PR (section 4.3.1).
-    for (const ref of ['T2', 'v1:L2']) {
+    for (const ref of ['B', 'v1:L2']) {
       const r = runFollowup(visits({ readerCalls: { outsideLiver: 'none', confirmedGone: [ref] } }), { marginMm: 10 });
       expect(r.visits[1].unconfirmedGone).toEqual([]);
       expect(r.visits[1].response).toMatchObject({ targetSumMm: 28, changeFromBaselinePct: -44, category: 'PR' });
@@ -90,9 +90,9 @@ describe('an equivocal new lesion (RECIST 1.1 section 4.3.5)', () => {
   it('is followed, not PD; once confirmed, progression dates from its first detection', () => {
     const r = series();
     // v2: 30 → 20 mm, −33.3% → PR; the 6 mm lesion is under 10 mm: equivocal.
-    expect(r.visits[1]).toMatchObject({ overall: 'PR', equivocalNewLesions: ['T2'] });
+    expect(r.visits[1]).toMatchObject({ overall: 'PR', equivocalNewLesions: ['B'] });
     // v3: it has grown to 12 mm: unequivocal by size → PD, dated from v2.
-    expect(r.visits[2]).toMatchObject({ overall: 'PD', unequivocalNewLesions: [{ track: 'T2', from: 'size' }] });
+    expect(r.visits[2]).toMatchObject({ overall: 'PD', unequivocalNewLesions: [{ track: 'B', from: 'size' }] });
     expect(r.bestResponse.progression).toEqual({ visit: 'v2', date: '2026-03-02' });
     // The PR at v2 falls on the date of progression, so it does not count: best response PD.
     expect(r.bestResponse.category).toBe('PD');
@@ -100,7 +100,7 @@ describe('an equivocal new lesion (RECIST 1.1 section 4.3.5)', () => {
 
   it("follows the reader's call over the size rule", () => {
     const early = series({ v2: { newLesions: { L2: 'unequivocal' } } });
-    expect(early.visits[1]).toMatchObject({ overall: 'PD', unequivocalNewLesions: [{ track: 'T2', from: 'reader' }] });
+    expect(early.visits[1]).toMatchObject({ overall: 'PD', unequivocalNewLesions: [{ track: 'B', from: 'reader' }] });
     expect(early.bestResponse.progression).toEqual({ visit: 'v2', date: '2026-03-02' });
     const held = series({ v3: { newLesions: { L2: 'equivocal' } } });
     expect(held.visits.map((v) => v.overall)).toEqual([null, 'PR', 'PR']);
@@ -120,13 +120,13 @@ describe('an equivocal new lesion (RECIST 1.1 section 4.3.5)', () => {
 
 describe('non-target call and disease outside the liver through the follow-up (RECIST 1.1 tables 1 and 2)', () => {
   it('CR of the liver is PR while the rest of the body is not assessed', () => {
-    const visits = [visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 30)]), visit('v2', '2026-03-02', [], { readerCalls: { confirmedGone: ['T1'] } })];
+    const visits = [visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 30)]), visit('v2', '2026-03-02', [], { readerCalls: { confirmedGone: ['A'] } })];
     const r = runFollowup(visits, { marginMm: 10 });
     expect(r.visits[1]).toMatchObject({ overall: 'PR', readerCalls: { outsideLiver: 'not-assessed' } });
     expect(r.visits[1].response).toMatchObject({ targetCategory: 'CR', nonTargetCategory: 'NE' });
-    visits[1].readerCalls = { confirmedGone: ['T1'], outsideLiver: 'none' };
+    visits[1].readerCalls = { confirmedGone: ['A'], outsideLiver: 'none' };
     expect(runFollowup(visits, { marginMm: 10 }).visits[1].overall).toBe('CR');
-    visits[1].readerCalls = { confirmedGone: ['T1'], outsideLiver: 'progression' };
+    visits[1].readerCalls = { confirmedGone: ['A'], outsideLiver: 'progression' };
     expect(runFollowup(visits, { marginMm: 10 }).visits[1].overall).toBe('PD');
     expect(r.scope).toBe('Falciform assesses the liver; non-target calls and disease outside the liver are taken from the reader.');
   });
@@ -150,8 +150,8 @@ describe('target present but too small to measure', () => {
       visit('v1', '2026-01-05', [lesion('L1', [0, 0, 0], 20)]),
       visit('v2', '2026-03-02', [lesion('L1', [0, 0, 0], 3.4)], { readerCalls: reader }),
     ];
-    expect(runFollowup(visits({ outsideLiver: 'none' }), { marginMm: 10 }).visits[1].response.targets).toEqual([{ track: 'T1', recordedMm: 3.4 }]);
-    expect(runFollowup(visits({ outsideLiver: 'none', tooSmall: ['L1'] }), { marginMm: 10 }).visits[1].response.targets).toEqual([{ track: 'T1', recordedMm: 5 }]);
+    expect(runFollowup(visits({ outsideLiver: 'none' }), { marginMm: 10 }).visits[1].response.targets).toEqual([{ track: 'A', recordedMm: 3.4 }]);
+    expect(runFollowup(visits({ outsideLiver: 'none', tooSmall: ['L1'] }), { marginMm: 10 }).visits[1].response.targets).toEqual([{ track: 'A', recordedMm: 5 }]);
   });
 });
 

@@ -10,6 +10,7 @@ import {
   targetCategory,
   targetSum,
 } from '../../src/followup/recist.js';
+import { trackId } from '../../src/followup/ids.js';
 import { responseSeries } from '../../src/followup/response.js';
 import type { TargetObservation } from '../../src/followup/recist.js';
 
@@ -24,7 +25,7 @@ const notEvaluable: TargetObservation = { kind: 'not-evaluable' };
 function series(rows: TargetObservation[][], newLesion: boolean[] = rows.map(() => false)) {
   return responseSeries({
     criteria: 'RECIST 1.1',
-    targets: rows[0].map((_, n) => `T${n + 1}`),
+    targets: rows[0].map((_, n) => trackId(n)),
     observations: rows,
     nonTarget: rows.map(() => 'none'),
     newLesion,
@@ -49,15 +50,15 @@ describe('measurability and target selection', () => {
   it('takes measurable lesions, largest first, at most two in the liver', () => {
     // Source: RECIST 1.1 section 3.3.1: at most 5 targets, at most 2 per organ, chosen by size.
     const picked = selectTargets([
-      { id: 'T1', longestMm: 12, measurable: true },
-      { id: 'T2', longestMm: 31, measurable: true },
-      { id: 'T3', longestMm: 8, measurable: false },
-      { id: 'T4', longestMm: 24, measurable: true },
+      { id: 'A', longestMm: 12, measurable: true },
+      { id: 'B', longestMm: 31, measurable: true },
+      { id: 'C', longestMm: 8, measurable: false },
+      { id: 'D', longestMm: 24, measurable: true },
     ]);
-    expect(picked).toEqual(['T2', 'T4']);
-    expect(selectTargets([{ id: 'T1', longestMm: 9, measurable: false }])).toEqual([]);
+    expect(picked).toEqual(['B', 'D']);
+    expect(selectTargets([{ id: 'A', longestMm: 9, measurable: false }])).toEqual([]);
     // A tie goes to the earlier track so the choice is reproducible.
-    expect(selectTargets([{ id: 'T1', longestMm: 20, measurable: true }, { id: 'T2', longestMm: 20, measurable: true }, { id: 'T3', longestMm: 20, measurable: true }])).toEqual(['T1', 'T2']);
+    expect(selectTargets([{ id: 'A', longestMm: 20, measurable: true }, { id: 'B', longestMm: 20, measurable: true }, { id: 'C', longestMm: 20, measurable: true }])).toEqual(['A', 'B']);
   });
 });
 

@@ -2,7 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { assignWithGate } from '../../src/followup/hungarian.js';
 import { buildTracks, gateMm, type Override, type TrackVisitInput } from '../../src/followup/tracks.js';
-import { compareIds } from '../../src/followup/ids.js';
+import { compareIds, compareTrackIds, currentTrackRef, trackId, trackIndex } from '../../src/followup/ids.js';
 
 // Matching scenarios as designed (see the module comment of src/followup/tracks.ts): optimal
 // assignment within a size-scaled gate, then splits, merges, new and gone lesions, and reader
@@ -103,10 +103,30 @@ describe('optimal assignment (Hungarian)', () => {
 });
 
 describe('lesion tracks', () => {
-  it('numbers tracks in order of first appearance, within a visit in natural lesion-id order', () => {
+  it('letters track ids like spreadsheet columns and orders them A < … < Z < AA', () => {
+    expect([0, 1, 25, 26, 27, 51, 52, 701, 702].map(trackId)).toEqual(['A', 'B', 'Z', 'AA', 'AB', 'AZ', 'BA', 'ZZ', 'AAA']);
+    for (const n of [0, 25, 26, 701, 702, 18_277]) expect(trackIndex(trackId(n))).toBe(n);
+    expect(trackIndex('T3')).toBeNull();
+    expect(trackIndex('a')).toBeNull();
+    expect(['AA', 'B', 'Z', 'A', 'AB', 'BA'].sort(compareTrackIds)).toEqual(['A', 'B', 'Z', 'AA', 'AB', 'BA']);
+    // Lexical order would put AA before B: the natural order is by count.
+    expect(['AA', 'B'].sort()).toEqual(['AA', 'B']);
+    expect(() => trackId(-1)).toThrow(RangeError);
+    // The old numbered ids map one to one onto the letters; other references pass unchanged.
+    expect(['T1', 'T3', 'T26', 'T27', 'v1:L2', 'C', 'T0', 'T'].map(currentTrackRef)).toEqual(['A', 'C', 'Z', 'AA', 'v1:L2', 'C', 'T0', 'T']);
+  });
+
+  it('goes on past Z to AA, AB for the 27th and 28th lesion, and a link may name such a track', () => {
+    const many = (id: string) => visit(id, Array.from({ length: 28 }, (_, n): L => [`L${n + 1}`, n * 60, 0, 12]));
+    const { tracks } = buildTracks([many('v1'), many('v2')], [{ kind: 'link', visit: 'v2', lesion: 'L1', track: 'AB' }]);
+    expect(tracks.map((t) => t.id)).toEqual([...'ABCDEFGHIJKLMNOPQRSTUVWXYZ', 'AA', 'AB', 'AC']);
+    expect(tracks[27]).toMatchObject({ id: 'AB', visits: [{ lesions: ['L28'] }, { lesions: ['L1'], how: 'override' }] });
+  });
+
+  it('letters tracks in order of first appearance, within a visit in natural lesion-id order', () => {
     expect(['L10', 'L2', 'L1'].sort(compareIds)).toEqual(['L1', 'L2', 'L10']);
     const { rows } = table([visit('v1', [['L10', 0, 0, 12], ['L2', 50, 0, 12], ['L1', 100, 0, 12]]), visit('v2', [['L1', 100, 0, 12], ['L9', 0, 80, 12], ['L2', 50, 0, 12], ['L10', 0, 0, 12]])]);
-    expect(rows).toEqual({ T1: ['L1', 'L1'], T2: ['L2', 'L2'], T3: ['L10', 'L10'], T4: ['-', 'L9'] });
+    expect(rows).toEqual({ A: ['L1', 'L1'], B: ['L2', 'L2'], C: ['L10', 'L10'], D: ['-', 'L9'] });
   });
 
   it('follows lesions by position, whatever their ids and order at the next visit (shuffled)', () => {
@@ -114,7 +134,7 @@ describe('lesion tracks', () => {
       visit('v1', [['L1', 0, 0, 20], ['L2', 60, 0, 15], ['L3', 0, 60, 12], ['L4', 60, 60, 25]]),
       visit('v2', [['L4', 0, 61, 11], ['L1', 61, 60, 24], ['L3', 59, 1, 16], ['L2', 1, 0, 18]]),
     ]);
-    expect(rows).toEqual({ T1: ['L1', 'L2'], T2: ['L2', 'L3'], T3: ['L3', 'L4'], T4: ['L4', 'L1'] });
+    expect(rows).toEqual({ A: ['L1', 'L2'], B: ['L2', 'L3'], C: ['L3', 'L4'], D: ['L4', 'L1'] });
   });
 
   it('keeps neighbours apart when they move together (global, not greedy, matching)', () => {
@@ -123,19 +143,19 @@ describe('lesion tracks', () => {
     // A'→B leaves B' (20 mm from A, outside the gate) and A unpaired: 4/17.5 + 0.5 + 0.5 = 1.23.
     expect(gateMm(10, 10, 0)).toBe(17.5);
     const { rows } = table([visit('v1', [['A', 0, 0, 10], ['B', 12, 0, 10]]), visit('v2', [['A2', 8, 0, 10], ['B2', 20, 0, 10]])]);
-    expect(rows).toEqual({ T1: ['A', 'A2'], T2: ['B', 'B2'] });
+    expect(rows).toEqual({ A: ['A', 'A2'], B: ['B', 'B2'] });
   });
 
   it('scales the gate with lesion size: a big lesion may shift further than a small one', () => {
     // 12 mm lesion moved 20 mm: gate 10 + 9 = 19 → not matched (gone + new).
     const small = table([visit('v1', [['L1', 0, 0, 12]]), visit('v2', [['L1', 20, 0, 12]])]).rows;
-    expect(small).toEqual({ T1: ['L1', 'gone'], T2: ['-', 'L1'] });
+    expect(small).toEqual({ A: ['L1', 'gone'], B: ['-', 'L1'] });
     // 40 mm lesion moved 30 mm: gate 10 + 30 = 40 → matched.
     const big = table([visit('v1', [['L1', 0, 0, 40]]), visit('v2', [['L1', 30, 0, 38]])]).rows;
-    expect(big).toEqual({ T1: ['L1', 'L1'] });
+    expect(big).toEqual({ A: ['L1', 'L1'] });
     // The alignment's slack widens every gate of that visit.
     const slack = table([visit('v1', [['L1', 0, 0, 12]]), visit('v2', [['L1', 20, 0, 12]], { slackMm: 2 })]).rows;
-    expect(slack).toEqual({ T1: ['L1', 'L1'] });
+    expect(slack).toEqual({ A: ['L1', 'L1'] });
   });
 
   it('marks new and gone lesions, and not-evaluable ones outside the scanned field', () => {
@@ -143,12 +163,12 @@ describe('lesion tracks', () => {
       visit('v1', [['L1', 0, 0, 20], ['L2', 80, 0, 20], ['L3', 0, 200, 20]]),
       visit('v2', [['L1', 0, 0, 20], ['L7', -80, 40, 9]], { inView: (p) => p[1] < 150 }),
     ]);
-    expect(rows).toEqual({ T1: ['L1', 'L1'], T2: ['L2', 'gone'], T3: ['L3', 'not-evaluable'], T4: ['-', 'L7'] });
+    expect(rows).toEqual({ A: ['L1', 'L1'], B: ['L2', 'gone'], C: ['L3', 'not-evaluable'], D: ['-', 'L7'] });
   });
 
   it('picks a lesion back up when it reappears', () => {
     const { rows } = table([visit('v1', [['L1', 0, 0, 15]]), visit('v2', []), visit('v3', [['L1', 2, 0, 8]])]);
-    expect(rows).toEqual({ T1: ['L1', 'gone', 'L1'] });
+    expect(rows).toEqual({ A: ['L1', 'gone', 'L1'] });
   });
 
   it('recognises a split: both fragments stay with the track', () => {
@@ -156,58 +176,60 @@ describe('lesion tracks', () => {
     // of its centre (reaching 16 and 17 mm out). One is paired by assignment; the other lies within
     // the gate and, like the first, inside the old extent.
     const { rows, tracks } = table([visit('v1', [['L1', 0, 0, 40], ['L2', 100, 0, 20]]), visit('v2', [['L1', -9, 0, 14], ['L2', 100, 0, 20], ['L3', 9, 0, 16]])]);
-    expect(rows).toEqual({ T1: ['L1', 'L3+L1'], T2: ['L2', 'L2'] });
+    expect(rows).toEqual({ A: ['L1', 'L3+L1'], B: ['L2', 'L2'] });
     expect(tracks[0].visits[1]!.how).toBe('split');
     // Not a split when the newcomer does not fit inside the old extent: a new lesion. A 12 mm
     // lesion (radius 6 mm, allowance 3 mm) cannot hold a 5 mm one centred 9 mm away (9 + 2.5 > 9).
     const beside = table([visit('v1', [['L1', 0, 0, 12]]), visit('v2', [['L1', 0, 0, 12], ['L2', 9, 0, 5]])]).rows;
-    expect(beside).toEqual({ T1: ['L1', 'L1'], T2: ['-', 'L2'] });
+    expect(beside).toEqual({ A: ['L1', 'L1'], B: ['-', 'L2'] });
   });
 
   it('recognises a merge: the coalesced lesion goes to the lower track, the other is merged into it', () => {
     // 15 mm lesions at x = 0 and x = 20 become one 36 mm lesion at x = 11. Assignment pairs it with
-    // the nearer, T2; T1 is unpaired, within the gate, and the lesion overlaps both old extents.
+    // the nearer, B; A is unpaired, within the gate, and the lesion overlaps both old extents.
     const { rows, tracks } = table([
       visit('v1', [['L1', 0, 0, 15], ['L2', 20, 0, 15]]),
       visit('v2', [['L1', 11, 0, 36]]),
       visit('v3', [['L1', 10, 0, 30]]),
     ]);
-    expect(rows).toEqual({ T1: ['L1', 'L1', 'L1'], T2: ['L2', 'merged:T1', 'merged:T1'] });
+    expect(rows).toEqual({ A: ['L1', 'L1', 'L1'], B: ['L2', 'merged:A', 'merged:A'] });
     expect(tracks[0].visits[1]!.how).toBe('coalesced');
   });
 
   it('respects reader overrides, also when tracks are recomputed', () => {
     const v1 = visit('v1', [['L1', 0, 0, 20], ['L2', 30, 0, 20]]);
     const v2 = visit('v2', [['L1', 0, 0, 20], ['L2', 30, 0, 20]]);
-    expect(table([v1, v2]).rows).toEqual({ T1: ['L1', 'L1'], T2: ['L2', 'L2'] });
+    expect(table([v1, v2]).rows).toEqual({ A: ['L1', 'L1'], B: ['L2', 'L2'] });
     // The reader says the automatic links are crossed.
     const swap: Override[] = [
-      { kind: 'link', visit: 'v2', lesion: 'L1', track: 'T2' },
+      { kind: 'link', visit: 'v2', lesion: 'L1', track: 'B' },
       { kind: 'link', visit: 'v2', lesion: 'L2', track: 'v1:L1' },
     ];
     const first = table([v1, v2], swap);
-    expect(first.rows).toEqual({ T1: ['L1', 'L2'], T2: ['L2', 'L1'] });
+    expect(first.rows).toEqual({ A: ['L1', 'L2'], B: ['L2', 'L1'] });
     expect(first.tracks[0].visits[1]!.how).toBe('override');
     // Recomputing with a third visit keeps the reader's links and follows each track on from where
-    // the reader put it (T1 was L2 at x = 30 at v2, so it continues with v3's L2 at x = 31).
+    // the reader put it (A was L2 at x = 30 at v2, so it continues with v3's L2 at x = 31).
     const v3 = visit('v3', [['L1', 1, 0, 18], ['L2', 31, 0, 18]]);
-    expect(table([v1, v2, v3], swap).rows).toEqual({ T1: ['L1', 'L2', 'L2'], T2: ['L2', 'L1', 'L1'] });
-    // "This is new": L1 at v2 starts its own track; T1 is then gone.
-    expect(table([v1, v2], [{ kind: 'new', visit: 'v2', lesion: 'L1' }]).rows).toEqual({ T1: ['L1', 'gone'], T2: ['L2', 'L2'], T3: ['-', 'L1'] });
-    // Unlink from one track only: L1 may not be T1; with T2 taken it starts its own track.
-    expect(table([v1, v2], [{ kind: 'unlink', visit: 'v2', lesion: 'L1', track: 'T1' }]).rows).toEqual({ T1: ['L1', 'gone'], T2: ['L2', 'L2'], T3: ['-', 'L1'] });
+    expect(table([v1, v2, v3], swap).rows).toEqual({ A: ['L1', 'L2', 'L2'], B: ['L2', 'L1', 'L1'] });
+    // "This is new": L1 at v2 starts its own track; A is then gone.
+    expect(table([v1, v2], [{ kind: 'new', visit: 'v2', lesion: 'L1' }]).rows).toEqual({ A: ['L1', 'gone'], B: ['L2', 'L2'], C: ['-', 'L1'] });
+    // Unlink from one track only: L1 may not be A; with B taken it starts its own track.
+    expect(table([v1, v2], [{ kind: 'unlink', visit: 'v2', lesion: 'L1', track: 'A' }]).rows).toEqual({ A: ['L1', 'gone'], B: ['L2', 'L2'], C: ['-', 'L1'] });
     // Two links to one track make fragments.
-    expect(table([v1, v2], [{ kind: 'link', visit: 'v2', lesion: 'L1', track: 'T1' }, { kind: 'link', visit: 'v2', lesion: 'L2', track: 'T1' }]).rows.T1).toEqual(['L1', 'L1+L2']);
+    expect(table([v1, v2], [{ kind: 'link', visit: 'v2', lesion: 'L1', track: 'A' }, { kind: 'link', visit: 'v2', lesion: 'L2', track: 'A' }]).rows.A).toEqual(['L1', 'L1+L2']);
+    // A correction stored when tracks were numbered ("T2") still names the same track.
+    expect(table([v1, v2], [{ kind: 'link', visit: 'v2', lesion: 'L1', track: 'T2' }, { kind: 'link', visit: 'v2', lesion: 'L2', track: 'T1' }]).rows).toEqual(first.rows);
   });
 
   it('warns about, and ignores, overrides naming what is not there', () => {
     const v1 = visit('v1', [['L1', 0, 0, 20]]);
     const v2 = visit('v2', [['L1', 0, 0, 20]]);
     const { rows, warnings } = table([v1, v2], [
-      { kind: 'link', visit: 'v2', lesion: 'L5', track: 'T1' },
+      { kind: 'link', visit: 'v2', lesion: 'L5', track: 'A' },
       { kind: 'new', visit: 'v9', lesion: 'L1' },
     ]);
-    expect(rows).toEqual({ T1: ['L1', 'L1'] });
+    expect(rows).toEqual({ A: ['L1', 'L1'] });
     expect(warnings).toHaveLength(2);
   });
 });

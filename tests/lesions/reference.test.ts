@@ -207,13 +207,15 @@ describe.each(cases.map((c, n) => [c.name, n] as const))('%s', (_name, n) => {
         return;
       }
       if (r.ownLabel === 0) return;
-      // Source: scipy.ndimage.distance_transform_edt with sampling = spacing (same grid) or
-      // scipy.spatial.cKDTree over world voxel centres (other grid), run live.
+      // Source: the margin to the border surface (face to face, docs/formats.md) computed by
+      // scipy.ndimage.distance_transform_edt on a grid of half the spacing, where faces are samples
+      // (same grid), or by a scipy.spatial.cKDTree search measuring every candidate pair of boxes
+      // (other grid), run live.
       if (r.marginMm !== null && r.marginMm <= CAP_MM) {
         measured++;
         expect(l.marginMm).toBeCloseTo(r.marginMm, 9);
         expect(r.nearestLabels.map((v) => SCHEME.get(v))).toContain(l.nearestOtherSegment);
-        expect(l.marginAlert).toBe(r.marginMm < MARGIN_MM);
+        expect(l.marginAlert).toBe(r.marginMm <= MARGIN_MM);
       } else expect(l.marginMm).toBeNull();
     });
     expect(spanning).toBeGreaterThanOrEqual(1);
@@ -233,7 +235,8 @@ describe.each(sameGridCases)('%s: both margin methods', (_name, n) => {
     let compared = 0;
     found.lesions.forEach((lv, t) => {
       const seg = a.lesions[t].segment;
-      if (seg === null || a.lesions[t].marginMm === 0) return;
+      // A lesion across segments is 0 by definition, not measured; one touching a border is measured.
+      if (seg === null || Object.keys(a.lesions[t].segmentFractions).length > 1) return;
       const own = segmentIndexOf(seg);
       const edt = maskLesionMargin(c.mask, lv, map, own, CAP_MM, 'edt');
       const search = maskLesionMargin(c.mask, lv, map, own, CAP_MM, 'search');

@@ -1,8 +1,10 @@
-import { mkdtempSync, readFileSync, writeFileSync, mkdirSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync, mkdirSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { resolveStaticPath } from '../../main/static-files.js';
+import { openRegularFile, resolveStaticPath } from '../../main/static-files.js';
+import { startWebServer } from '../../main/web-server.js';
 import { readChosenFiles, writeFileAtomic } from '../../main/file-access.js';
 import { VERSION } from '../../src/version.js';
 
@@ -42,5 +44,38 @@ describe('version', () => {
   it('equals package.json', () => {
     const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8'));
     expect(VERSION).toBe(pkg.version);
+  });
+});
+
+describe('the served app serves only regular files', () => {
+  it('answers a FIFO, a device and a link to a device in its folder with 404 at once, and a file as itself', async () => {
+    const root = mkdtempSync(join(tmpdir(), 'falciform-serve-'));
+    writeFileSync(join(root, 'index.html'), '<!doctype html><title>x</title>');
+    execFileSync('mkfifo', [join(root, 'pipe.js')]);
+    symlinkSync('/dev/zero', join(root, 'zero.js'));
+    symlinkSync('/dev/urandom', join(root, 'random.json'));
+    const server = await startWebServer(root);
+    try {
+      for (const name of ['pipe.js', 'zero.js', 'random.json']) {
+        const started = performance.now();
+        const res = await fetch(`${server.url}${name}`, { signal: AbortSignal.timeout(5000) });
+        expect(res.status, name).toBe(404);
+        expect(performance.now() - started, name).toBeLessThan(1000);
+      }
+      const head = await fetch(`${server.url}zero.js`, { method: 'HEAD', signal: AbortSignal.timeout(5000) });
+      expect(head.status).toBe(404);
+      const page = await fetch(server.url, { signal: AbortSignal.timeout(5000) });
+      expect(page.status).toBe(200);
+      expect(await page.text()).toBe('<!doctype html><title>x</title>');
+    } finally {
+      await server.close();
+    }
+    // The same check the desktop window's app protocol uses.
+    expect(await openRegularFile(join(root, 'pipe.js'))).toBeNull();
+    expect(await openRegularFile('/dev/zero')).toBeNull();
+    expect(await openRegularFile(join(root, 'missing.js'))).toBeNull();
+    const index = await openRegularFile(join(root, 'index.html'));
+    expect(index?.size).toBe(31);
+    await index?.handle.close();
   });
 });

@@ -9,7 +9,7 @@ const example = {
     { id: 'v2', date: '2026-03-02', scan: 'v2/scan.nii.gz', liver: 'v2/liver.nii.gz', landmarks: 'v2/landmarks.json', marks: 'v2/marks.json' },
     { id: 'v1', date: '2026-01-12', scan: 'v1/scan.nii.gz', segments: 'v1/segments.nii.gz', scheme: 'default', lesions: 'v1/lesions.nii.gz' },
   ],
-  targets: ['T1', 'T3'],
+  targets: ['A', 'C'],
 };
 
 const parse = (m: unknown) => parseManifest(JSON.stringify(m), 'p/manifest.json');
@@ -19,7 +19,7 @@ describe('study manifest', () => {
     const m = parse(example);
     expect(m.patient.id).toBe('DEMO-0001');
     expect(m.visits.map((v) => v.id)).toEqual(['v1', 'v2']);
-    expect(m.targets).toEqual(['T1', 'T3']);
+    expect(m.targets).toEqual(['A', 'C']);
   });
 
   it('defaults the margin to 10 mm', () => {

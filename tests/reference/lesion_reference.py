@@ -30,6 +30,51 @@ def world(affine, ijk):
     return ijk @ affine[:3, :3].T + affine[:3, 3]
 
 
+def face_distance_same_grid(region, spacing):
+    """Margin to the border surface, one grid: for every voxel, the gap from its cell to the lesion's cells.
+
+    The half-voxel rule applied explicitly: on a grid of half the spacing, sample 2i+1 is voxel i's
+    centre and samples 2i and 2i+2 its faces, so a voxel's cell is the 3x3x3 samples around its centre.
+    Between two boxes the nearest points have face or shared coordinates, all samples of that grid, so
+    scipy's distance_transform_edt there (sampling = spacing / 2) gives the gap between cells exactly.
+    """
+    fine = np.zeros(tuple(2 * n + 1 for n in region.shape), dtype=bool)
+    fine[1::2, 1::2, 1::2] = region
+    fine = ndimage.binary_dilation(fine, structure=np.ones((3, 3, 3), dtype=bool))
+    dt = ndimage.distance_transform_edt(~fine, sampling=np.asarray(spacing) / 2)
+    return ndimage.minimum_filter(dt, size=3, mode='constant', cval=np.inf)[1::2, 1::2, 1::2]
+
+
+def face_distance_two_grids(affine, idx, seg_affine, other_idx, seg):
+    """Margin to the border surface across two grids: boxes in the lesion grid's frame (its unit axes).
+
+    Each lesion voxel is a box of half its spacing per axis; each map voxel is the bounding box of its
+    cell along those axes. The gap between two boxes: per axis, the centre offset less both half-widths,
+    floored at 0. Candidates come from a k-d tree of centres (the gap is never under the centre distance
+    less the summed half-widths' length); every candidate pair is then measured.
+    """
+    cols = affine[:3, :3]
+    frame = (cols / np.linalg.norm(cols, axis=0)).T  # rows: the lesion grid's unit axes
+    half = 0.5 * np.abs(frame @ cols).sum(axis=1) + 0.5 * np.abs(frame @ seg_affine[:3, :3]).sum(axis=1)
+    a = world(affine, idx) @ frame.T
+    b = world(seg_affine, other_idx) @ frame.T
+    tree = cKDTree(a)
+    d, which = tree.query(b)
+    gap = lambda p, q: np.linalg.norm(np.maximum(np.abs(p - q) - half, 0), axis=-1)
+    upper = gap(b, a[which]).min()
+    reach = upper + np.linalg.norm(half) + 1e-9
+    best, labels = np.inf, set()
+    for t in np.nonzero(d <= reach)[0]:
+        near = tree.query_ball_point(b[t], reach)
+        g = gap(b[t], a[near]).min()
+        lab = int(seg[tuple(other_idx[t])])
+        if g < best - 1e-9:
+            best, labels = g, {lab}
+        elif g <= best + 1e-9:
+            labels.add(lab)
+    return float(best), sorted(labels)
+
+
 def axial_axis(affine):
     best, best_cos = 2, -1.0
     for axis in range(3):
@@ -152,16 +197,11 @@ def run_case(c):
         if own != 0 and not spans:
             other = (seg != 0) & (seg != own)
             if same_grid and other.any():
-                # Distance from every voxel centre to the lesion, anisotropic sampling.
-                dt = ndimage.distance_transform_edt(~region, sampling=spacing)
-                margin = float(dt[other].min())
-                nearest = np.unique(seg[other & (dt <= margin + 1e-9)])
+                cell_dt = face_distance_same_grid(region, spacing)
+                margin = float(cell_dt[other].min())
+                nearest = np.unique(seg[other & (cell_dt <= margin + 1e-9)])
             elif other.any():
-                # Exact nearest pair between lesion voxel centres and other-segment voxel centres.
-                other_idx = np.argwhere(other)
-                d, which = cKDTree(world(seg_affine, other_idx)).query(world(affine, idx))
-                margin = float(d.min())
-                nearest = np.unique(seg[tuple(other_idx[which[d <= margin + 1e-9]].T)])
+                margin, nearest = face_distance_two_grids(affine, idx, seg_affine, np.argwhere(other), seg)
         longest, widths = longest_axial(affine, idx)
         p = props[n]
         lesions.append({

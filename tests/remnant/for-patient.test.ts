@@ -67,7 +67,7 @@ describe('remnant of the proposed resection', () => {
 
   it("the app's choice, body size and tracks replace the manifest's", () => {
     const m = manifest({ resection: { preset: 'right-hemihepatectomy' } });
-    const tracks: TrackOfLesions[] = [{ id: 'T1', lesions: { v1: 'L4', v3: 'L2' } }, { id: 'T2', lesions: { v1: 'L1' } }];
+    const tracks: TrackOfLesions[] = [{ id: 'A', lesions: { v1: 'L4', v3: 'L2' } }, { id: 'B', lesions: { v1: 'L1' } }];
     const p = remnantForPatient(m, visit, { resection: { segments: ['II', 'III'] }, body: { heightCm: null, weightKg: null }, tracks })!;
     expect(p.resection).toBeNull();
     expect(p.label).toBe('Chosen segments (removes II, III)');
@@ -79,8 +79,8 @@ describe('remnant of the proposed resection', () => {
     const q = remnantForPatient(m, visit, { resection: { preset: 'left-lateral-sectionectomy' }, tracks })!;
     expect(q.alertLesions.map((a) => [a.lesion, a.track, a.where])).toEqual([['L3', null, 'in remnant']]);
     const r = remnantForPatient(m, visit, { resection: { segments: ['V'] }, tracks })!;
-    expect(r.alertLesions.map((a) => [a.lesion, a.track, a.where])).toEqual([['L2', 'T1', 'in remnant'], ['L3', null, 'at transection']]);
-    expect(r.lesionTracks).toEqual({ L2: 'T1' });
+    expect(r.alertLesions.map((a) => [a.lesion, a.track, a.where])).toEqual([['L2', 'A', 'in remnant'], ['L3', null, 'at transection']]);
+    expect(r.lesionTracks).toEqual({ L2: 'A' });
   });
 
   it('a height or weight the formulas refuse gives the measured share and says why', () => {

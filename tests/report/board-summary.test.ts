@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { boardSheetHtml } from '../../src/report/board-html.js';
 import { buildBoardSummary, madeAtText, MAX_TABLE_VISITS, MAX_TRACK_ROWS, MAX_VISIT_ROWS } from '../../src/report/board-summary.js';
 import { placeLesions } from '../../src/report/diagram-placement.js';
 import { segmentDiagramSvg } from '../../src/report/segment-diagram-svg.js';
@@ -7,6 +8,31 @@ import { OKABE_ITO, SEGMENT_COLOURS } from '../../src/report/palette.js';
 import { syntheticPatient } from './fixtures.js';
 
 const madeAt = new Date(Date.UTC(2026, 5, 30, 8, 5));
+
+describe('viable diameters on the board summary', () => {
+  it('under mRECIST each present lesion shows its viable diameter beside its longest, labelled viable', () => {
+    // mRECIST (Lencioni and Llovet 2010, from memory) sums viable diameters: the page shows them.
+    const input = syntheticPatient({ visits: 3, lesions: 3, viable: true });
+    const s = buildBoardSummary(input, { madeAt });
+    expect(s.criteria).toBe('mRECIST');
+    expect(s.lesionTable.viable).toBe(true);
+    const t1 = input.followup.tracks[0];
+    const cell = s.lesionTable.rows.find((r) => r.id === t1.id)!.cells[0]!;
+    expect(cell.longestAxialMm).toBe(12);
+    expect(cell.viableAxialMm).toBe(6);
+    const html = boardSheetHtml(s);
+    expect(html).toContain('12.0 <span class="b-muted">viable 6.0</span>');
+    expect(html).toMatch(/then the viable \(enhancing\) diameter/);
+    expect(html).toMatch(/sums of target viable \(enhancing\) diameters/);
+  });
+
+  it('under RECIST 1.1 without viable measures nothing about viable tumour is shown', () => {
+    const s = buildBoardSummary(syntheticPatient({ visits: 3, lesions: 3 }), { madeAt });
+    expect(s.lesionTable.viable).toBe(false);
+    expect(s.lesionTable.rows.every((r) => r.cells.every((c) => c === null || !('viableAxialMm' in c)))).toBe(true);
+    expect(boardSheetHtml(s)).not.toMatch(/viable/i);
+  });
+});
 
 describe('board summary model', () => {
   it('carries the latest response, the targets and when it was made', () => {

@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { CASE_FORM_COLUMNS, caseFormCsv, caseFormRows, decimal, fractionsText } from '../../src/report/case-form.js';
 import { csvField, toCsv } from '../../src/report/csv.js';
 import { CAUTION } from '../../src/caution.js';
+import { trackId } from '../../src/followup/ids.js';
 import { syntheticPatient } from './fixtures.js';
 
 // The case-form CSV read back with csv-parse, a general RFC 4180 parser (RFC 4180: Shafranovich,
@@ -63,6 +64,14 @@ describe('case-form export', () => {
     expect(lesionRows.filter((r) => r.status === 'present')).toHaveLength(lesions);
     expect(lesionRows.filter((r) => r.status !== 'present')).toHaveLength(absent);
     expect(absent).toBeGreaterThan(0);
+  });
+
+  it('names tracks by letters, with the target flag in a column of its own', () => {
+    const lesionRows = rows.filter((r) => r.row_type === 'lesion');
+    const ids = [...new Set(lesionRows.map((r) => r.track))];
+    expect(ids).toEqual(input.followup.tracks.map((t, n) => trackId(n)));
+    expect(ids.every((id) => /^[A-Z]+$/.test(id))).toBe(true);
+    for (const r of lesionRows) expect(r.target).toBe(input.followup.tracks.find((t) => t.id === r.track)!.target ? 'yes' : 'no');
   });
 
   it('carries the analysis values, rounded as analyze --json rounds them', () => {
@@ -160,6 +169,7 @@ describe('docs/case-form.md', () => {
     const row = (name: string) => doc.split('\n').find((l) => l.startsWith(`| \`${name}\` |`)) ?? '';
     for (const v of ['`visit`', '`lesion`']) expect(row('row_type')).toContain(v);
     for (const v of ['`measured`', '`absent`', '`NE`']) expect(row('evaluation')).toContain(v);
+    for (const v of ['`A`', '`Z`', '`AA`', '`target`']) expect(row('track')).toContain(v);
     expect(row('response_basis')).toContain('`computed`');
     for (const v of ['`CT`', '`MR`']) expect(row('modality')).toContain(v);
     const input = syntheticPatient({ visits: 3, lesions: 4 });

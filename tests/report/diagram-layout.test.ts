@@ -86,15 +86,15 @@ describe('lesion placement', () => {
     const at1 = placeLesions(f, visits, 'v1');
     const at2 = placeLesions(f, visits, 'v2');
     const spot = (ps: typeof at1, track: string) => ps.find((p) => p.track === track)!.at;
-    expect(spot(at2, 'T1')).toEqual(spot(at1, 'T1'));
-    expect(spot(at2, 'T2')).toEqual(spot(at1, 'T2'));
-    expect(spot(at1, 'T1')).not.toEqual(spot(at1, 'T2'));
+    expect(spot(at2, 'A')).toEqual(spot(at1, 'A'));
+    expect(spot(at2, 'B')).toEqual(spot(at1, 'B'));
+    expect(spot(at1, 'A')).not.toEqual(spot(at1, 'B'));
     expect(at2.map((p) => [p.lesion, p.track, p.isNew, p.alert])).toEqual([
-      ['L2', 'T1', false, false], ['L1', 'T2', false, true], ['L3', 'T3', true, false], ['L4', 'T4', true, false],
+      ['L2', 'A', false, false], ['L1', 'B', false, true], ['L3', 'C', true, false], ['L4', 'D', true, false],
     ]);
-    // Default RECIST 1.1 targets (measurable at baseline): T1 and T2.
+    // Default RECIST 1.1 targets (measurable at baseline): A and B.
     expect(at2.filter((p) => p.target).map((p) => p.track)).toEqual(f.targets.tracks.filter((t) => at2.some((p) => p.track === t)));
-    expect(at2.find((p) => p.track === 'T1')!.target).toBe(true);
+    expect(at2.find((p) => p.track === 'A')!.target).toBe(true);
     expect(at2.find((p) => p.segment === null)!.at).toEqual(OUTSIDE_REGION.anchor);
   });
 
@@ -104,10 +104,10 @@ describe('lesion placement', () => {
     expect(d.viewBox).toBe(`0 0 ${VIEW_WIDTH} ${VIEW_HEIGHT}`);
     const regions = d.base.filter((s) => s.attrs['data-segment-region'] !== undefined).map((s) => s.attrs['data-segment-region']);
     expect(regions.sort()).toEqual(['I', 'II', 'III', 'IVa', 'IVb', 'V', 'VI', 'VII', 'VIII']);
-    expect(d.lesions.map((m) => m.label.text)).toEqual(['T1', 'T2', 'T3 new', 'T4 new']);
+    expect(d.lesions.map((m) => m.label.text)).toEqual(['A', 'B', 'C new', 'D new']);
     const dot = (track: string) => d.lesions.find((m) => m.lesion.track === track)!.shapes.find((s) => s.attrs.class === 'lesion-dot')!.attrs;
-    expect(dot('T1').fill).not.toBe(dot('T3').fill); // target filled, other open
-    expect(d.lesions.find((m) => m.lesion.track === 'T2')!.shapes).toHaveLength(2); // ring for the alert
+    expect(dot('A').fill).not.toBe(dot('C').fill); // target filled, other open
+    expect(d.lesions.find((m) => m.lesion.track === 'B')!.shapes).toHaveLength(2); // ring for the alert
     expect(d.base.some((s) => s.text === 'outside the segment map')).toBe(true);
     for (const s of [...d.base, ...d.lesions.flatMap((m) => [...m.shapes, m.label])]) expect(Object.keys(s.attrs)).not.toContain('style');
   });
@@ -134,9 +134,9 @@ describe('a lesion crossing a segment border', () => {
     expect(inIII.crossing).toBeNull();
     expect(insidePolygon(inIII.at, REGIONS.III.polygon)).toBe(true);
     const d = diagramDrawing({ segments: ['I', 'II', 'III', 'IV', 'V', 'VI', 'VII', 'VIII'], lesions: [onBorder, inIII], label: 'v1' });
-    expect(d.lesions[0].label.text).toBe('T1 V 60% / VIII 40%');
+    expect(d.lesions[0].label.text).toBe('A V 60% / VIII 40%');
     expect(d.lesions[0].attrs['data-crossing']).toBe('V|VIII');
     expect(d.lesions[0].title).toContain('crossing the border: V 60% / VIII 40%');
-    expect(d.lesions[1].label.text).toBe('T2');
+    expect(d.lesions[1].label.text).toBe('B');
   });
 });

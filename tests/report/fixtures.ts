@@ -42,6 +42,8 @@ export interface SyntheticOptions {
   id?: string;
   /** Plan a right hemihepatectomy on the last visit for the remnant line. */
   remnant?: boolean;
+  /** Viable diameters (half of each lesion's, to a tenth) and mRECIST as the criteria. */
+  viable?: boolean;
 }
 
 /**
@@ -60,7 +62,9 @@ export function syntheticPatient(o: SyntheticOptions): ReportInput {
       const c: V3 = [-90 + 60 * (n % 4), -60 + 40 * Math.floor(n / 4), 10 * (n % 3)];
       const mm = Math.max(6, 12 + 3 * (n % 5) + (k < 3 ? -k : 2 * (k - 3)));
       const alert = n % 3 === 0;
-      lesions.push(lesion(`L${lesions.length + 1}`, c, n === 5 ? null : seg, mm, alert ? (n % 2 ? 0 : 4.5) : 22, alert ? 'VIII' : 'V'));
+      const l = lesion(`L${lesions.length + 1}`, c, n === 5 ? null : seg, mm, alert ? (n % 2 ? 0 : 4.5) : 22, alert ? 'VIII' : 'V');
+      if (o.viable) l.viableAxialMm = Math.round(mm * 5) / 10;
+      lesions.push(l);
     }
     const analysis: VisitAnalysis = {
       segments: SEGMENTS.map((s, i) => ({ segment: s, volumeMl: 200 + 10 * i })),
@@ -73,6 +77,7 @@ export function syntheticPatient(o: SyntheticOptions): ReportInput {
   const manifest: Manifest = {
     patient: { id: o.id ?? 'SYN-0001', birthYear: 1950, heightCm: 170, weightKg: 70, sex: 'female' },
     marginMm: 10,
+    ...(o.viable ? { criteria: 'mRECIST' as const } : {}),
     visits: visits.map((v) => ({ id: v.id, date: v.date, scan: `${v.id}/scan.nii.gz`, segments: `${v.id}/segments.nii.gz`, lesions: `${v.id}/lesions.nii.gz` })),
     treatments: [
       { date: dates[0], kind: 'therapy-start', label: o.oddTreatment ? 'FOLFOX, "cycle 1" <b>&' : 'First-line chemotherapy' },
@@ -80,7 +85,7 @@ export function syntheticPatient(o: SyntheticOptions): ReportInput {
   };
   const followup = runFollowup(
     visits.map((v) => ({ id: v.id, date: v.date, lesions: v.analysis.lesions, sliceThicknessMm: 2 })),
-    { marginMm: 10 },
+    { marginMm: 10, ...(o.viable ? { criteria: 'mRECIST' as const } : {}) },
   );
   const last = visits[visits.length - 1];
   const volumetry: VisitVolumetry = {

@@ -2,7 +2,7 @@ import 'fake-indexeddb/auto';
 import { afterEach, describe, expect, it } from 'vitest';
 import { storedPatient } from '../../renderer/analysis/store-source.js';
 import { FalciformDb } from '../../renderer/store/db.js';
-import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark } from '../../renderer/store/edits.js';
+import { buildMapFromLandmarks, deleteMark, saveLandmarks, saveMark, saveMarkViable } from '../../renderer/store/edits.js';
 import { commitImport, readImport } from '../../renderer/store/import.js';
 import { patientTrail } from '../../renderer/store/patients.js';
 import { markFromCaliper } from '../../renderer/viewer/caliper.js';
@@ -104,6 +104,32 @@ describe('manual marks', () => {
     expect(await failure(saveMark(db, ID, 'v2', markFromCaliper('M1', [0, 0, 0], [10, 0, 0], 5), 'create'))).toMatch(/M1: visit v2 has a mark with this id already/);
     expect(await failure(saveMark(db, ID, 'v2', markFromCaliper('M5', [0, 0, 0], [10, 0, 0], 5), 'update'))).toMatch(/M5: is not among visit v2's marks/);
     expect(await failure(saveMark(db, ID, 'v9', markFromCaliper('M1', [0, 0, 0], [10, 0, 0], 5)))).toMatch(/v9: is not among EDIT-0001's stored visits/);
+    expect(await dump(db)).toEqual(untouched);
+  });
+});
+
+describe('viable diameter of a mark (mRECIST)', () => {
+  it('is stored to 0.1 mm with a trail entry, cleared with another, and reaches the analysis', async () => {
+    const db = await stored();
+    const longest = JSON.parse((await db.inputs.get(`${ID}/v2/marks`))!.text).marks[0].longestAxialMm as number;
+    await saveMarkViable(db, ID, 'v2', 'M1', 6.04);
+    const mark = JSON.parse((await db.inputs.get(`${ID}/v2/marks`))!.text).marks[0];
+    expect(mark.viableAxialMm).toBe(6);
+    expect(mark.longestAxialMm).toBe(longest);
+    expect((await analysed(db)).v2.lesions[0].viableAxialMm).toBe(6);
+    await saveMarkViable(db, ID, 'v2', 'M1', null);
+    expect('viableAxialMm' in JSON.parse((await db.inputs.get(`${ID}/v2/marks`))!.text).marks[0]).toBe(false);
+    const trail = (await patientTrail(db, ID)).filter((a) => a.field === 'viableAxialMm');
+    expect(trail.map((a) => [a.entityId, a.oldValue, a.newValue])).toEqual([['v2/M1', null, 6], ['v2/M1', 6, null]]);
+    expect((await db.visits.get([ID, 'v2']))!.storedBytes).toBe(await recountedBytes(db, 'v2'));
+  });
+
+  it('refuses a viable diameter longer than the mark, by the marks file rule, changing nothing', async () => {
+    const db = await stored();
+    const untouched = await dump(db);
+    const longest = JSON.parse((await db.inputs.get(`${ID}/v2/marks`))!.text).marks[0].longestAxialMm as number;
+    expect(await failure(saveMarkViable(db, ID, 'v2', 'M1', longest + 1))).toMatch(/v2\/marks\.json: mark "M1": viableAxialMm [\d.]+ is longer than longestAxialMm/);
+    expect(await failure(saveMarkViable(db, ID, 'v2', 'M9', 3))).toMatch(/M9: is not among visit v2's marks/);
     expect(await dump(db)).toEqual(untouched);
   });
 });

@@ -28,6 +28,7 @@ const RELEASED: Record<number, Record<string, string | null>> = {
     audit: 'id, at, patientId',
   },
   2: { audit: 'id, at, patientId, [patientId+at]' },
+  3: {},
 };
 
 const scanBytes = gz(scanVolume([20, 16, 12], centredAffine([20, 16, 12], [2, 2, 2], [0, 0, 0]), []), 'int16');
@@ -63,6 +64,35 @@ const WRITTEN_BY: Record<number, { records: Record<string, object[]>; check: (db
       // ... and the per-patient, time-ordered trail index.
       expect((await patientTrail(db, 'OLD-1')).map((a) => a.id)).toEqual(['a1', 'a2']);
       expect(await db.settings.get('marginMm')).toEqual({ key: 'marginMm', value: 8 });
+    },
+  },
+  2: {
+    // Tracks were numbered T1, T2, … then: targets, corrections and reader calls named them so.
+    records: {
+      patients: [{ id: 'OLD-2', marginMm: 10, createdAt: '2026-02-02T10:00:00.000Z', targets: ['T1', 'T27'] }],
+      visits: [
+        { patientId: 'OLD-2', id: 'v1', date: '2026-02-01', volumes: [], inputs: [], storedBytes: 100 },
+        { patientId: 'OLD-2', id: 'v2', date: '2026-04-01', volumes: [], inputs: [], storedBytes: 120, readerCalls: { confirmedGone: ['T3', 'v1:L2'], nonTarget: 'present' } },
+      ],
+      tracks: [{ key: 'OLD-2/T2', patientId: 'OLD-2', id: 'T2', lesions: { v1: 'L2' }, target: false }],
+      overrides: [
+        { id: 'o-1', patientId: 'OLD-2', kind: 'link', visit: 'v2', lesion: 'L4', track: 'T2', at: '2026-04-02T09:00:00.000Z' },
+        { id: 'o-2', patientId: 'OLD-2', kind: 'link', visit: 'v2', lesion: 'L5', track: 'v1:L1', at: '2026-04-02T09:01:00.000Z' },
+        { id: 'o-3', patientId: 'OLD-2', kind: 'new', visit: 'v2', lesion: 'L6', at: '2026-04-02T09:02:00.000Z' },
+      ],
+      audit: [
+        { id: 'a1', at: '2026-04-02T09:00:00.000Z', patientId: 'OLD-2', entity: 'patient', entityId: 'OLD-2', field: 'targets', oldValue: null, newValue: ['T1', 'T27'], action: 'update' },
+      ],
+    },
+    async check(db) {
+      // Version 3 letters the tracks: T1 → A, T2 → B, T3 → C, T27 → AA; "v1:L1" names a track by its lesion and stays.
+      expect((await db.patients.get('OLD-2'))!.targets).toEqual(['A', 'AA']);
+      expect((await db.visits.get(['OLD-2', 'v2']))!.readerCalls).toEqual({ confirmedGone: ['C', 'v1:L2'], nonTarget: 'present' });
+      expect((await db.visits.get(['OLD-2', 'v1']))!.readerCalls).toBeUndefined();
+      expect(await db.tracks.toArray()).toEqual([{ key: 'OLD-2/B', patientId: 'OLD-2', id: 'B', lesions: { v1: 'L2' }, target: false }]);
+      expect((await db.overrides.toArray()).map((o) => [o.id, o.track])).toEqual([['o-1', 'B'], ['o-2', 'v1:L1'], ['o-3', undefined]]);
+      // The trail is history: it keeps the names the reader saw then.
+      expect((await patientTrail(db, 'OLD-2'))[0].newValue).toEqual(['T1', 'T27']);
     },
   },
 };

@@ -17,7 +17,7 @@ async function twoPatients(): Promise<FalciformDb> {
       key: `${id}/v1/L1`, patientId: id, visitId: 'v1', id: 'L1', source: 'mask', centroidMm: [1, 2, 3], segment: 'V',
       longestAxialMm: 12, shortAxisMm: 9, marginMm: 4, nearestOtherSegment: 'VIII', marginAlert: true,
     });
-    await db.tracks.add({ key: `${id}/T1`, patientId: id, id: 'T1', lesions: { v1: 'L1' }, target: true });
+    await db.tracks.add({ key: `${id}/A`, patientId: id, id: 'A', lesions: { v1: 'L1' }, target: true });
     await db.overrides.add({ id: `o-${id}`, patientId: id, kind: 'new', visit: 'v1', lesion: 'L1', at: '2026-04-01T00:00:00.000Z' });
   }
   return db;
@@ -64,5 +64,13 @@ describe('patients', () => {
     expect(await getSetting(db, 'marginMm')).toBe(5);
     const entry = (await db.audit.toArray()).find((a) => a.entity === 'setting');
     expect(entry).toMatchObject({ entityId: 'marginMm', oldValue: 10, newValue: 5, action: 'update' });
+  });
+
+  it('a stored setting the app cannot use reads as its default instead of reaching a screen', async () => {
+    const db = await twoPatients();
+    await db.settings.bulkPut([{ key: 'windowPresets', value: 'Liver' }, { key: 'readerName', value: { name: 'Dr A' } }, { key: 'marginMm', value: -3 }]);
+    expect(await getSetting(db, 'windowPresets')).toEqual(DEFAULT_SETTINGS.windowPresets);
+    expect(await getSetting(db, 'readerName')).toBe('');
+    expect(await getSetting(db, 'marginMm')).toBe(10);
   });
 });

@@ -24,40 +24,40 @@ async function failure(p: Promise<unknown>): Promise<string> {
   return e.message;
 }
 
-const T1 = { ref: 'v1:L1', label: 'T1' };
-const T2 = { ref: 'v1:L2', label: 'T2' };
+const A = { ref: 'v1:L1', label: 'A' };
+const B = { ref: 'v1:L2', label: 'B' };
 
 describe('track edits', () => {
   it('a link stores the override and its trail entry (track seen before → after)', async () => {
     const db = await store();
-    const o = await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'T3' }, T1);
+    const o = await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'C' }, A);
     expect(o).toMatchObject({ patientId: 'P-1', kind: 'link', visit: 'v2', lesion: 'L3', track: 'v1:L1' });
     expect(await patientOverrides(db, 'P-1')).toEqual([o]);
     const trail = await patientTrail(db, 'P-1');
     expect(trail).toHaveLength(1);
-    expect(trail[0]).toMatchObject({ entity: 'override', entityId: o.id, field: 'link v2/L3', action: 'create', oldValue: 'T3', newValue: 'T1' });
+    expect(trail[0]).toMatchObject({ entity: 'override', entityId: o.id, field: 'link v2/L3', action: 'create', oldValue: 'C', newValue: 'A' });
   });
 
   it('unlink and mark-as-new are stored the same way', async () => {
     const db = await store();
-    await unlinkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'T1' }, T1);
-    await markNewLesion(db, 'P-1', { visit: 'v3', lesion: 'L2', currentTrack: 'T2' });
+    await unlinkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'A' }, A);
+    await markNewLesion(db, 'P-1', { visit: 'v3', lesion: 'L2', currentTrack: 'B' });
     expect((await patientOverrides(db, 'P-1')).map((o) => [o.kind, o.visit, o.lesion, o.track ?? null])).toEqual([
       ['unlink', 'v2', 'L1', 'v1:L1'],
       ['new', 'v3', 'L2', null],
     ]);
     expect((await patientTrail(db, 'P-1')).map((a) => [a.field, a.oldValue, a.newValue])).toEqual([
-      ['unlink v2/L1', 'T1', 'not T1'],
-      ['new v3/L2', 'T2', 'new lesion'],
+      ['unlink v2/L1', 'A', 'not A'],
+      ['new v3/L2', 'B', 'new lesion'],
     ]);
   });
 
   it('a newer correction of the same lesion replaces the earlier one, and the trail says so', async () => {
     const db = await store();
-    const first = await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'T3' }, T1);
-    const second = await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'T1' }, T2);
+    const first = await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'C' }, A);
+    const second = await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'A' }, B);
     // A different lesion's correction is left alone; so is an unlink from another track.
-    const other = await markNewLesion(db, 'P-1', { visit: 'v2', lesion: 'L4', currentTrack: 'T2' });
+    const other = await markNewLesion(db, 'P-1', { visit: 'v2', lesion: 'L4', currentTrack: 'B' });
     expect((await patientOverrides(db, 'P-1')).map((o) => o.id)).toEqual([second.id, other.id]);
     const trail = await patientTrail(db, 'P-1');
     expect(trail.map((a) => [a.action, a.entityId])).toEqual([
@@ -68,7 +68,7 @@ describe('track edits', () => {
 
   it('withdrawing a correction deletes it with a trail entry; someone else\'s cannot be withdrawn', async () => {
     const db = await store();
-    const o = await unlinkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'T1' }, T1);
+    const o = await unlinkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'A' }, A);
     expect(await failure(removeOverride(db, 'P-2', o.id))).toMatch(/is not stored for patient P-2/);
     await removeOverride(db, 'P-1', o.id);
     expect(await patientOverrides(db, 'P-1')).toEqual([]);
@@ -78,26 +78,26 @@ describe('track edits', () => {
   it('change and trail entry land together or not at all', async () => {
     const db = await store();
     db.audit.hook('creating', () => { throw new Error('disk full'); });
-    await expect(linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'T3' }, T1)).rejects.toThrow('disk full');
+    await expect(linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L3', currentTrack: 'C' }, A)).rejects.toThrow('disk full');
     expect(await db.overrides.count()).toBe(0);
   });
 
   it('refuses a link to the track the lesion is already in, and edits of a patient not stored', async () => {
     const db = await store();
-    expect(await failure(linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'T1' }, T1))).toMatch(/already in T1/);
-    expect(await failure(markNewLesion(db, 'NOBODY', { visit: 'v2', lesion: 'L1', currentTrack: 'T1' }))).toMatch(/not stored/);
+    expect(await failure(linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'A' }, A))).toMatch(/already in A/);
+    expect(await failure(markNewLesion(db, 'NOBODY', { visit: 'v2', lesion: 'L1', currentTrack: 'A' }))).toMatch(/not stored/);
     expect(await db.overrides.count()).toBe(0);
   });
 
   it('targets: at most two (RECIST 1.1, Eisenhauer et al. 2009: at most two per organ), stored on the patient with a trail entry', async () => {
     const db = await store();
-    expect(await failure(setTargets(db, 'P-1', ['T1', 'T2', 'T3']))).toMatch(/at most 2 per organ/);
-    expect(await failure(setTargets(db, 'P-1', ['T1', 'T1']))).toMatch(/more than once/);
-    expect((await setTargets(db, 'P-1', ['T2'])).targets).toEqual(['T2']);
+    expect(await failure(setTargets(db, 'P-1', ['A', 'B', 'C']))).toMatch(/at most 2 per organ/);
+    expect(await failure(setTargets(db, 'P-1', ['A', 'A']))).toMatch(/more than once/);
+    expect((await setTargets(db, 'P-1', ['B'])).targets).toEqual(['B']);
     expect((await setTargets(db, 'P-1', [])).targets).toBeUndefined();
     expect((await patientTrail(db, 'P-1')).map((a) => [a.entity, a.field, a.oldValue, a.newValue])).toEqual([
-      ['patient', 'targets', null, ['T2']],
-      ['patient', 'targets', ['T2'], null],
+      ['patient', 'targets', null, ['B']],
+      ['patient', 'targets', ['B'], null],
     ]);
   });
 });
@@ -117,23 +117,23 @@ describe('stored corrections change the tracks the follow-up computes', () => {
   it('unlink makes the lesion a new track; linking it back restores the automatic tracks', async () => {
     const db = await store();
     const before = runFollowup(visits, { marginMm: 10 });
-    expect(before.tracks.map((t) => [t.id, t.lesions])).toEqual([['T1', { v1: 'L1', v2: 'L1' }], ['T2', { v1: 'L2', v2: 'L2' }]]);
+    expect(before.tracks.map((t) => [t.id, t.lesions])).toEqual([['A', { v1: 'L1', v2: 'L1' }], ['B', { v1: 'L2', v2: 'L2' }]]);
     const t1 = before.tracks[0];
     expect(trackRef(t1)).toBe('v1:L1');
 
-    await unlinkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'T1' }, { ref: trackRef(t1), label: 'T1' });
+    await unlinkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'A' }, { ref: trackRef(t1), label: 'A' });
     const unlinked = runFollowup(visits, { marginMm: 10, overrides: asOverrides(await patientOverrides(db, 'P-1')) });
     expect(unlinked.tracks.map((t) => [t.id, t.lesions, t.status])).toEqual([
-      ['T1', { v1: 'L1' }, { v1: 'present', v2: 'gone' }],
-      ['T2', { v1: 'L2', v2: 'L2' }, { v1: 'present', v2: 'present' }],
-      ['T3', { v2: 'L1' }, { v2: 'present' }],
+      ['A', { v1: 'L1' }, { v1: 'present', v2: 'gone' }],
+      ['B', { v1: 'L2', v2: 'L2' }, { v1: 'present', v2: 'present' }],
+      ['C', { v2: 'L1' }, { v2: 'present' }],
     ]);
     // RECIST 1.1: a new lesion is progression.
     expect(unlinked.visits[1].overall).toBe('PD');
 
-    await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'T3' }, { ref: trackRef(t1), label: 'T1' });
+    await linkLesion(db, 'P-1', { visit: 'v2', lesion: 'L1', currentTrack: 'C' }, { ref: trackRef(t1), label: 'A' });
     const relinked = runFollowup(visits, { marginMm: 10, overrides: asOverrides(await patientOverrides(db, 'P-1')) });
-    expect(relinked.tracks.map((t) => [t.id, t.lesions])).toEqual([['T1', { v1: 'L1', v2: 'L1' }], ['T2', { v1: 'L2', v2: 'L2' }]]);
+    expect(relinked.tracks.map((t) => [t.id, t.lesions])).toEqual([['A', { v1: 'L1', v2: 'L1' }], ['B', { v1: 'L2', v2: 'L2' }]]);
     expect(relinked.tracks[0].how.v2).toBe('override');
     expect(await patientOverrides(db, 'P-1')).toHaveLength(1);
   });

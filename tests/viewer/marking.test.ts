@@ -16,6 +16,15 @@ describe('caliper marks', () => {
     expect(parseMarks(file, 'marks.json')).toEqual([m]);
   });
 
+  it('keeps a viable diameter typed with the caliper, and the marks reader accepts it back', () => {
+    // mRECIST (Lencioni and Llovet 2010, from memory): the viable part is no longer than the lesion.
+    const m = markFromCaliper('M2', [0, 0, 0], [20, 0, 0], 12, 7.5);
+    expect(m.viableAxialMm).toBe(7.5);
+    expect(parseMarks(JSON.stringify({ marks: [markJson(m)] }), 'marks.json')[0].viableAxialMm).toBe(7.5);
+    // A caliper moved shorter than the viable diameter keeps the viable one within the lesion.
+    expect(markFromCaliper('M2', [0, 0, 0], [6, 0, 0], 5, 7.5).viableAxialMm).toBe(6);
+  });
+
   it('caps the short axis at the longest diameter (RECIST: the short axis is the lesser one)', () => {
     expect(markFromCaliper('M1', [0, 0, 0], [10, 0, 0], 14).shortAxisMm).toBe(10);
   });

@@ -19,6 +19,8 @@ const overlays: VisitOverlays = {
   segments: { codes: new Uint8Array([0, 5, 5, 8]), splitIV: false, source: 'imported' },
   segmentProblem: null,
   lesions: { labels: new Uint8Array([0, 0, 1, 0]), ids: ['L1'] },
+  viable: null,
+  proposal: null,
   liverBoxMm: null,
   warnings: ['segments: 3 voxels outside the liver'],
 };
@@ -31,6 +33,8 @@ describe('the viewer\'s volumes arriving scan first', () => {
     expect(shown.segments).toBeNull();
     expect(shown.lesions).toBeNull();
     expect(shown.segmentProblem).toBeNull();
+    expect(shown.viable).toBeNull();
+    expect(shown.proposal).toBeNull();
     expect(shown.overlaysPending).toBe(true);
     const other = VISIT_VOLUME_PARTS.whole(scanOf('v1'), overlays);
     expect(VISIT_VOLUME_PARTS.early(first, other)?.visitId).toBe('v2');

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { composeSlice, lesionOutlines } from '../../renderer/viewer/compose.js';
+import { composeSlice, lesionOutlines, maskRuns } from '../../renderer/viewer/compose.js';
 import { CODE_RGB, segmentOfCode } from '../../renderer/viewer/palette.js';
 import { CT_PRESETS, dragWindow, grayOf, summariseValues } from '../../renderer/viewer/window-level.js';
 
@@ -96,5 +96,14 @@ describe('slice composition', () => {
     expect(segmentOfCode(9, true)).toBe('IVb');
     expect(segmentOfCode(8, false)).toBe('VIII');
     expect(segmentOfCode(0, false)).toBeNull();
+  });
+});
+
+describe('viable-tumour overlay', () => {
+  it('gives the runs of set pixels row by row, a run at a row end closed at the width', () => {
+    // 4 × 3 slice: row 0 "0110", row 1 "1001", row 2 "0011".
+    const mask = Uint8Array.from([0, 1, 1, 0, 1, 0, 0, 1, 0, 0, 1, 1]);
+    expect(maskRuns(mask, 4, 3)).toEqual([0, 1, 3, 1, 0, 1, 1, 3, 4, 2, 2, 4]);
+    expect(maskRuns(new Uint8Array(12), 4, 3)).toEqual([]);
   });
 });

@@ -35,7 +35,8 @@ describe('analyzeVisit', () => {
   });
 
   it('places marks by their centre and measures their margin from the calipers', () => {
-    // Source: the definitions (brief, "Measures"). Nearest VIII voxel centre to x = w(12) is w(20): 8 mm.
+    // Source: the definitions (brief, "Measures"; border surface, docs/formats.md). The nearest VIII
+    // voxel to x = w(12) is w(20); its face, the border, lies half a 1 mm voxel nearer: 7.5 mm.
     const a = analyzeVisit({
       scan,
       segments: map,
@@ -46,8 +47,8 @@ describe('analyzeVisit', () => {
       id: 'M7', source: 'mark', segment: 'V', segmentFractions: { V: 1 }, volumeMl: null, longestAxialMm: 6, shortAxisMm: 3,
       nearestOtherSegment: 'VIII', marginAlert: true, viableAxialMm: 4, segmentWarning: null,
     });
-    expect(m7.marginMm).toBeCloseTo(8 - 3, 12);
-    // 6 mm from V's voxel centres at i = 19, less half of 14 mm: floored at 0.
+    expect(m7.marginMm).toBeCloseTo(7.5 - 3, 12);
+    // 5.5 mm from V's border face at i = 19.5, less half of 14 mm: floored at 0.
     expect(m2).toMatchObject({ segment: 'VIII', marginMm: 0, nearestOtherSegment: 'V', marginAlert: true });
     expect('viableAxialMm' in m2).toBe(false);
     // Row j = 29 is background, 2 mm from the last liver row: placed in V with a warning.
@@ -57,12 +58,15 @@ describe('analyzeVisit', () => {
   });
 
   it('alerts at or within the set margin, 10 mm by default (common practice)', () => {
-    const m = [mark('A', w(5, 10, 10), 2)]; // 15 mm to VIII, less 1 mm: 14 mm
+    const m = [mark('A', w(5, 10, 10), 2)]; // 14.5 mm to VIII's face at x = w(19.5), less 1 mm: 13.5 mm
     expect(DEFAULT_MARGIN_MM).toBe(10);
-    expect(analyzeVisit({ scan, segments: map, marks: m }).lesions[0]).toMatchObject({ marginMm: 14, marginAlert: false });
-    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 14.5 }).lesions[0].marginAlert).toBe(true);
+    expect(analyzeVisit({ scan, segments: map, marks: m }).lesions[0]).toMatchObject({ marginMm: 13.5, marginAlert: false });
     expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 14 }).lesions[0].marginAlert).toBe(true);
-    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 13.9 }).lesions[0].marginAlert).toBe(false);
+    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 13.5 }).lesions[0].marginAlert).toBe(true);
+    expect(analyzeVisit({ scan, segments: map, marks: m, marginMm: 13.4 }).lesions[0].marginAlert).toBe(false);
+    // A mark whose edge reaches the border surface reads 0 and alerts at a set margin of 0.
+    const touching = [mark('B', w(15, 10, 10), 9)]; // 4.5 mm to the face, less 4.5 mm
+    expect(analyzeVisit({ scan, segments: map, marks: touching, marginMm: 0 }).lesions[0]).toMatchObject({ marginMm: 0, marginAlert: true });
   });
 
   it('numbers mask lesions L1, L2 … before the marks, which keep their ids', () => {

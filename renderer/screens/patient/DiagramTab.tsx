@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { showsViable } from '../../../src/followup/followup';
 import { usePatient } from '../../analysis/PatientContext';
 import { oneDecimal } from '../../format';
 import { SegmentDiagram } from '../../diagram/SegmentDiagram';
@@ -18,6 +19,7 @@ export function DiagramTab() {
   const lesions = placeLesions(f, visits.map((v) => ({ id: v.id, lesions: v.analysis.lesions })), visit.id);
   const response = f.visits.find((v) => v.id === visit.id);
   const segments = visit.analysis.segments.map((s) => s.segment);
+  const viable = showsViable(f) ? (response?.viableAxialMm ?? {}) : null;
   const builtFromLandmarks = analysis.manifest.visits.find((v) => v.id === visit.id)?.segments === undefined;
   return (
     <section aria-labelledby="diagram-title">
@@ -53,14 +55,16 @@ export function DiagramTab() {
             <p className="empty">No lesion at this visit.</p>
           ) : (
             <table className="data-table compact fit" data-testid="diagram-table">
-              <thead><tr><th scope="col">Track</th><th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th><th scope="col">Margin (mm)</th></tr></thead>
+              <thead><tr><th scope="col">Track</th><th scope="col">Target</th><th scope="col">Lesion</th><th scope="col">Segment</th><th scope="col">Longest axial (mm)</th>{viable && <th scope="col" title="Longest diameter of the viable (enhancing) tumour, mRECIST">Viable (mm)</th>}<th scope="col">Margin (mm)</th></tr></thead>
               <tbody>
                 {lesions.map((l) => (
                   <tr key={l.lesion} data-testid="diagram-row" data-lesion={l.lesion}>
                     <th scope="row">{l.track ?? '—'}{l.isNew ? ' (new)' : ''}</th>
+                    <td data-testid="diagram-target">{l.target ? 'yes' : 'no'}</td>
                     <td>{l.lesion}</td>
                     <td data-testid="diagram-segment">{l.segment ?? 'outside'}{l.crossing ? <span className="muted"> (crosses: {sharesText(l)})</span> : null}</td>
                     <td className="num">{oneDecimal(l.longestAxialMm)}</td>
+                    {viable && <td className="num" data-testid="diagram-viable">{oneDecimal(viable[l.lesion])}</td>}
                     <td className={`num${l.alert ? ' alert-cell' : ''}`}>{l.marginMm === null ? '—' : `${oneDecimal(l.marginMm)}${l.nearestOtherSegment ? ` to ${l.nearestOtherSegment}` : ''}`}</td>
                   </tr>
                 ))}

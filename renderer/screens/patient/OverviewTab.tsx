@@ -5,6 +5,7 @@ import { PLANE_APPROXIMATION } from '../../../src/segments/build';
 import { usePatient } from '../../analysis/PatientContext';
 import { RouteLink } from '../../components/RouteLink';
 import { fmtMm, fmtPct } from '../../format';
+import { ReaderCallsPanel } from './ReaderCallsPanel';
 
 
 /** The visit timeline: each visit's inputs, lesions, alerts and response category. */
@@ -23,7 +24,7 @@ export function OverviewTab() {
             <th scope="col">Segment map</th>
             <th scope="col">Lesions</th>
             <th scope="col">Margin alerts</th>
-            <th scope="col">Target sum</th>
+            <th scope="col">Target sum{analysis.followup.criteria === 'mRECIST' ? ' (viable)' : ''}</th>
             <th scope="col">vs baseline</th>
             <th scope="col">vs nadir</th>
             <th scope="col">Response ({analysis.followup.criteria}, computed)</th>
@@ -31,7 +32,18 @@ export function OverviewTab() {
           </tr>
         </thead>
         <tbody>
-          {analysis.manifest.visits.map((mv, k) => {
+          {[...analysis.manifest.visits.map((v) => ({ v, waiting: null })), ...analysis.waitingVisits.map((w) => ({ v: null, waiting: w }))]
+            .sort((a, b) => (a.v ?? a.waiting!).date.localeCompare((b.v ?? b.waiting!).date)).map(({ v: mv, waiting }) => {
+            if (!mv) {
+              return (
+                <tr key={waiting!.id} data-testid="visit-row" data-visit={waiting!.id} data-waiting="true">
+                  <td>{waiting!.date}</td>
+                  <th scope="row"><RouteLink to={{ screen: 'visit', patientId: patient.id, visitId: waiting!.id }}>{waiting!.id}</RouteLink></th>
+                  <td colSpan={8} className="muted">no segment map yet: open the visit to grow the liver and confirm its landmarks; left out of the analysis until then</td>
+                </tr>
+              );
+            }
+            const k = analysis.manifest.visits.indexOf(mv);
             const f = byId.get(mv.id);
             const result = analysis.visits.find((v) => v.id === mv.id);
             const lesions = result?.analysis.lesions ?? [];
@@ -63,6 +75,7 @@ export function OverviewTab() {
       <p className="hint" data-testid="computed-response-note">{COMPUTED_RESPONSE}</p>
       {analysis.manifest.visits.some((v) => !v.segments) && <p className="hint" data-testid="plane-approximation">{PLANE_APPROXIMATION}</p>}
       <p data-testid="best-response">Best overall response ({analysis.followup.criteria}): {bestResponseText(analysis.followup.bestResponse)}</p>
+      {analysis.followup.visits.length > 1 && <ReaderCallsPanel />}
       {analysis.followup.departures.length > 0 && <p>Protocol settings: {analysis.followup.departures.join('; ')}</p>}
       {analysis.followup.notes.length > 0 && (
         <ul className="notes">

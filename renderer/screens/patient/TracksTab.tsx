@@ -1,10 +1,12 @@
 import { useCallback, useState } from 'react';
-import type { TrackSummary } from '../../../src/followup/followup';
+import { showsViable, type TrackSummary } from '../../../src/followup/followup';
+import { compareTrackIds } from '../../../src/followup/ids';
 import { MAX_TARGETS_PER_ORGAN } from '../../../src/followup/recist';
 import type { AuditRecord, JsonValue } from '../../../src/model/records';
 import { usePatient } from '../../analysis/PatientContext';
 import { trackOfLesion } from '../../charts/chart-data';
 import { errorText } from '../../error-text';
+import { fmtMm } from '../../format';
 import { appDb } from '../../store/db';
 import { patientTrail } from '../../store/patients';
 import {
@@ -53,6 +55,7 @@ export function TracksTab() {
   const holder = trackOfLesion(f);
   const busy = state.status === 'running';
   const baseline = visits[0]?.id;
+  const viable = showsViable(f);
   const targets = pending?.over === analysis ? pending.targets : f.targets.tracks;
   const trackLabel = (ref: string | undefined) => {
     if (!ref) return '';
@@ -86,7 +89,7 @@ export function TracksTab() {
       <h3 id="tracks-title">Lesion tracks</h3>
       <p className="chart-note">
         Each row follows one lesion from visit to visit. Select a lesion to correct its track. Targets:{' '}
-        <strong data-testid="target-list">{targets.join(', ') || 'none'}</strong>{' '}
+        <strong data-testid="target-list">{[...targets].sort(compareTrackIds).join(', ') || 'none'}</strong>{' '}
         ({f.targets.source === 'named' ? 'chosen by a reader' : 'chosen automatically: the largest measurable lesions at baseline'}).
         RECIST 1.1 takes at most {MAX_TARGETS_PER_ORGAN} target lesions per organ, and the liver is one organ, so at most {MAX_TARGETS_PER_ORGAN} can be ticked.
         {f.targets.source === 'named' && (
@@ -153,6 +156,11 @@ export function TracksTab() {
                           </button>
                         ))}
                         <span className="cell-facts">{t.segments[v.id] ?? 'outside'} · {t.longestAxialMm[v.id]} mm</span>
+                        {viable && (
+                          <span className="cell-facts viable" data-testid="track-viable" title="Longest diameter of the viable (enhancing) tumour, not crossing necrosis (mRECIST)">
+                            {' '}· viable {fmtMm(t.viableAxialMm?.[v.id])}
+                          </span>
+                        )}
                         {(how === 'first' && v.id !== baseline) && <span className="tag new">new</span>}
                         {how && HOW_TEXT[how] && <span className="tag">{HOW_TEXT[how]}</span>}
                       </td>
@@ -281,7 +289,8 @@ function what(a: AuditRecord): string {
   const act = ACTION_WORDS[a.action] ?? a.action;
   if (a.entity === 'override') return `${act === 'added' ? 'correction' : `correction ${act}`}: ${a.field}`;
   if (a.entity === 'patient') return a.field === '*' ? `patient ${act}` : `${a.field} ${act}`;
-  return `${a.entity} ${act}${a.field && a.field !== '*' && a.field !== a.entity ? ` (${a.field})` : ''}`;
+  const field = a.field === 'viableAxialMm' ? 'viable diameter' : a.field;
+  return `${a.entity} ${act}${field && field !== '*' && field !== a.entity ? ` (${field === 'viable diameter' ? `${a.entityId}, ${field}` : field})` : ''}`;
 }
 
 function value(v: JsonValue, field: string): string {
@@ -298,7 +307,7 @@ function value(v: JsonValue, field: string): string {
   if (typeof v === 'object') {
     return Object.entries(v).map(([k, x]) => `${FIELD_WORDS[k] ?? k} ${value(x, k)}${typeof x === 'number' && /Mm$/.test(k) ? ' mm' : ''}`).join('; ');
   }
-  return String(v);
+  return typeof v === 'number' && /Mm$/.test(field) ? `${v} mm` : String(v);
 }
 
 /** Names of stored fields as the trail shows them beside their values. */

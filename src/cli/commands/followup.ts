@@ -1,6 +1,6 @@
 import { CAUTION } from '../../caution.js';
 import { bestResponseText } from '../../followup/best-response.js';
-import type { FollowupResult, VisitFollowup } from '../../followup/followup.js';
+import { showsViable, type FollowupResult, type VisitFollowup } from '../../followup/followup.js';
 import { targetSumText } from '../../followup/response.js';
 import { maxLesionsOption, parseArgs, UsageError } from '../args.js';
 import type { Command } from '../commands.js';
@@ -106,7 +106,8 @@ function visitBlock(r: FollowupResult, v: VisitFollowup, k: number): string[] {
   if (k > 0) out.push(`  new ${list(v.newLesions)}   gone ${list(v.goneLesions)}   not evaluable ${list(v.notEvaluable)}   margin alerts ${list(v.marginAlerts)}`);
   if (k > 0) out.push(`  ${readerLine(v)}`);
   else out.push(`  margin alerts ${list(v.marginAlerts)}`);
-  out.push('  track  lesion(s)      segment  longest mm  target  status');
+  const viable = showsViable(r);
+  out.push(`  track  lesion(s)      segment  longest mm${viable ? '  viable mm' : ''}  target  status`);
   for (const t of r.tracks) {
     const status = t.status[v.id];
     if (!status) continue;
@@ -114,7 +115,7 @@ function visitBlock(r: FollowupResult, v: VisitFollowup, k: number): string[] {
     const state = status === 'merged' ? `merged into ${t.mergedInto?.[v.id]}` : status;
     out.push(
       `  ${t.id.padEnd(6)} ${lesions.padEnd(14)} ${(t.segments[v.id] ?? (status === 'present' ? 'outside' : '—')).padEnd(8)} ` +
-        `${f1(t.longestAxialMm[v.id]).padStart(10)}  ${(t.target ? 'yes' : '').padEnd(6)}  ${state}`,
+        `${f1(t.longestAxialMm[v.id]).padStart(10)}  ${viable ? `${f1(t.viableAxialMm?.[v.id]).padStart(9)}  ` : ''}${(t.target ? 'yes' : '').padEnd(6)}  ${state}`,
     );
   }
   return out;
