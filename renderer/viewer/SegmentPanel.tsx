@@ -24,6 +24,7 @@ export function SegmentPanel({ volumes, segmentVolumes, liverVolumeMl, show, onS
     <section className="side-section" aria-labelledby="segment-map-title">
       <h3 id="segment-map-title">Segment map</h3>
       {seg && <p className="side-note" data-testid="map-source">{seg.source === 'built' ? `Built from this visit's landmarks inside the liver mask. ${PLANE_APPROXIMATION}` : 'Imported with the visit.'}</p>}
+      {volumes?.overlaysPending && <p className="side-note" data-testid="map-pending">Making the segment map and lesion outlines; the scan is shown meanwhile.</p>}
       {volumes?.segmentProblem && <p className="notice problem" role="alert" data-testid="map-problem">No segment map: {volumes.segmentProblem}</p>}
       <div className="wash-controls">
         <label className="wash-toggle">

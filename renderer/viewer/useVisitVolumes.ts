@@ -1,10 +1,10 @@
 import { useJob, type JobState } from '../workers/job-client';
-import type { VisitVolumes, VolumesRequest } from './volume-messages';
+import { VISIT_VOLUME_PARTS, type VisitVolumes, type VolumesRequest } from './volume-messages';
 
 /**
  * Decodes a visit's volumes in a worker. The decoded arrays arrive by transfer and are held once per
  * load, never copied into React state piece by piece; bump `revision` after an edit that changes the
- * segment map. The previous visit's volumes stay on screen until the new ones are ready.
+ * segment map. The previous visit's volumes stay on screen until the new scan is ready.
  */
 export function useVisitVolumes(patientId: string, visitId: string, revision: number): { state: JobState; volumes: VisitVolumes | null } {
   const request: VolumesRequest = { type: 'load', patientId, visitId };
@@ -13,6 +13,8 @@ export function useVisitVolumes(patientId: string, visitId: string, revision: nu
     request,
     'reading the images stopped unexpectedly',
     [patientId, visitId, revision],
+    undefined,
+    VISIT_VOLUME_PARTS,
   );
   return { state, volumes: last };
 }

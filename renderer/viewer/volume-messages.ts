@@ -34,6 +34,8 @@ export interface VisitVolumes {
   /** World bounding box of the liver mask, when the visit has one. */
   liverBoxMm: { min: Vec3; max: Vec3 } | null;
   warnings: string[];
+  /** The scan alone, shown while its segment map and lesions are still being made. */
+  overlaysPending: boolean;
 }
 
 export interface LandmarkProposal {
@@ -45,5 +47,28 @@ export interface LandmarkProposal {
   rotationDeg: number;
   warnings: string[];
 }
+
+/** What the volumes worker sends first, as soon as the scan is decoded (its voxels handed over). */
+export type VisitScan = Pick<VisitVolumes, 'patientId' | 'visitId' | 'dims' | 'affine' | 'inverse' | 'spacingMm' | 'scan' | 'slope' | 'inter' | 'values' | 'warnings'>;
+
+/** The worker's result, sent after the scan: what is drawn over it. */
+export type VisitOverlays = Pick<VisitVolumes, 'segments' | 'segmentProblem' | 'lesions' | 'viable' | 'liverBoxMm' | 'proposal' | 'warnings'>;
+
+/**
+ * How the worker's two replies make what the viewer shows (the viewer's `JobParts`): another visit's
+ * scan is shown as soon as it is decoded, its overlays following; a reload of the visit on screen
+ * (after an edit) keeps the old images until the new ones are whole. Nothing is copied.
+ */
+export const VISIT_VOLUME_PARTS = {
+  early(part: unknown, shown: VisitVolumes | null): VisitVolumes | null {
+    const scan = part as VisitScan;
+    if (shown && shown.patientId === scan.patientId && shown.visitId === scan.visitId) return null;
+    return { ...scan, segments: null, segmentProblem: null, lesions: null, viable: null, liverBoxMm: null, proposal: null, overlaysPending: true };
+  },
+  whole(part: unknown, result: unknown): VisitVolumes {
+    const scan = part as VisitScan, overlays = result as VisitOverlays;
+    return { ...scan, ...overlays, warnings: [...scan.warnings, ...overlays.warnings], overlaysPending: false };
+  },
+};
 
 export type VolumesRequest = { type: 'load'; patientId: string; visitId: string };

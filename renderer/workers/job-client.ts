@@ -9,6 +9,8 @@ export interface JobOptions {
   /** Buffers of the request to hand over rather than copy. */
   transfer?: Transferable[];
   onProgress?: Progress;
+  /** Receives a first part of the result the worker sends ahead of the rest. */
+  onPart?(part: unknown): void;
   /** Ends the worker; the promise then never settles. */
   signal?: AbortSignal;
 }
@@ -21,6 +23,7 @@ export function runJob<R>(worker: Worker, request: unknown, opts: JobOptions): P
     worker.onmessage = (e: MessageEvent<JobReply<R>>) => {
       const m = e.data;
       if (m.type === 'progress') return opts.onProgress?.(m.done, m.total, m.step);
+      if (m.type === 'part') return opts.onPart?.(m.part);
       end();
       if (m.type === 'result') resolve(m.result);
       else reject(m.falciform ? new FalciformError(m.falciform.kind, m.falciform.file, m.falciform.problem) : new Error(m.message));
@@ -47,11 +50,20 @@ export interface JobMemo<R> {
 }
 
 /**
- * Runs a job in a worker of `start` whenever `deps` change, following its progress, unless `memo`
- * has a valid result. The last result stays available while a new run is under way; a run
- * overtaken by the next one is ended.
+ * For a job whose worker sends a first part ahead of its result: what to show from the part (null
+ * keeps showing `shown`, the value on screen), and the whole value from the part and the result.
  */
-export function useJob<R>(start: () => Worker, request: unknown, crashed: string, deps: DependencyList, memo?: JobMemo<R>): { state: JobState; last: R | null } {
+export interface JobParts<R> {
+  early(part: unknown, shown: R | null): R | null;
+  whole(part: unknown, result: unknown): R;
+}
+
+/**
+ * Runs a job in a worker of `start` whenever `deps` change, following its progress, unless `memo`
+ * has a valid result. The last result stays available while a new run is under way, unless `parts`
+ * shows the new run's first part early; a run overtaken by the next one is ended.
+ */
+export function useJob<R>(start: () => Worker, request: unknown, crashed: string, deps: DependencyList, memo?: JobMemo<R>, parts?: JobParts<R>): { state: JobState; last: R | null } {
   const [state, setState] = useState<JobState>(() =>
     memo?.kept() ? { status: 'ready' } : { status: 'running', done: 0, total: 1, step: 'starting' });
   const [last, setLast] = useState<R | null>(() => memo?.kept() ?? null);
@@ -65,13 +77,21 @@ export function useJob<R>(start: () => Worker, request: unknown, crashed: string
     const keep = memo?.keep();
     const stop = new AbortController();
     const live = () => !stop.signal.aborted;
-    runJob<R>(start(), request, {
+    let part: { value: unknown } | null = null;
+    runJob<unknown>(start(), request, {
       crashed,
       signal: stop.signal,
       onProgress: (done, total, step) => { if (live()) setState({ status: 'running', done, total, step }); },
+      onPart: (value) => {
+        if (!live() || !parts) return;
+        part = { value };
+        const shown = parts.early(value, last);
+        if (shown) setLast(shown);
+      },
     }).then(
-      (result) => {
+      (reply) => {
         if (!live()) return;
+        const result = parts && part ? parts.whole(part.value, reply) : (reply as R);
         keep?.(result);
         setLast(result);
         setState({ status: 'ready' });
@@ -79,7 +99,8 @@ export function useJob<R>(start: () => Worker, request: unknown, crashed: string
       (e: unknown) => { if (live()) setState({ status: 'failed', message: errorText(e) }); },
     );
     return () => stop.abort();
-    // The caller names what the run depends on; start, request and memo are read from that render.
+    // The caller names what the run depends on; start, request, memo, parts and the value shown are
+    // read from that render.
   }, deps);
   return { state, last };
 }

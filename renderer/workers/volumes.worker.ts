@@ -1,7 +1,8 @@
 /// <reference lib="webworker" />
 // Decodes one visit's volumes for the viewer off the window's thread: the scan, its segment map (imported,
 // or built from liver mask and landmarks with the core's own functions, as the analysis does) and the
-// lesion mask's lesions, all brought onto the scan's grid and handed over without copying.
+// lesion mask's lesions, all brought onto the scan's grid and handed over without copying. The scan goes
+// first, as soon as it is decoded, so the viewer draws it while the overlays are made.
 import { describeLiver } from '../../src/followup/liver-shape';
 import { transformPoint } from '../../src/geometry/mat4';
 import type { ManifestVisit } from '../../src/manifest/manifest';
@@ -16,9 +17,9 @@ import { resampleNearest } from '../../src/volume/resample';
 import { storedPatient } from '../analysis/store-source';
 import { errorText } from '../error-text';
 import { appDb } from '../store/db';
-import type { LandmarkProposal, VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
+import type { LandmarkProposal, VisitOverlays, VisitScan, VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
-import { serveJob, type Progress } from './job';
+import { serveJob, type Part, type Progress } from './job';
 
 /** World box around the liver mask's voxels (for placing a first landmark set). */
 function liverBox(liver: Volume): VisitVolumes['liverBoxMm'] {
@@ -55,17 +56,31 @@ async function propose(earlier: ManifestVisit, liver: Volume, files: PatientFile
   return { fromVisit: earlier.id, set: p.set, method: a.method, residualMm: a.residualMm, rotationDeg: a.rotationDeg, warnings: a.warnings };
 }
 
-async function load({ patientId, visitId }: VolumesRequest, progress: Progress): Promise<VisitVolumes> {
+async function load({ patientId, visitId }: VolumesRequest, progress: Progress, part: Part): Promise<VisitOverlays> {
   const { manifest, files } = await storedPatient(appDb(), patientId);
   const v = manifest.visits.find((x) => x.id === visitId);
   if (!v) throw new Error(`visit ${visitId} is not among ${patientId}'s stored visits`);
   const total = 4;
-  const warnings: string[] = [];
   progress(0, total, 'reading the scan');
   const loaded = await files.volume(v.scan);
-  warnings.push(...loaded.warnings);
   const scan = loaded.volume;
-  const values = summariseValues(scan.data, scan.slope, scan.inter);
+  const first: VisitScan = {
+    patientId,
+    visitId,
+    dims: [...scan.dims],
+    affine: [...scan.affine],
+    inverse: [...scan.inverse],
+    spacingMm: [...scan.spacingMm],
+    scan: scan.data,
+    slope: scan.slope,
+    inter: scan.inter,
+    values: summariseValues(scan.data, scan.slope, scan.inter),
+    warnings: loaded.warnings,
+  };
+  // Below, only growing a liver from a seed reads the scan's voxels; otherwise they are handed over and
+  // the rest needs only the scan's grid.
+  part(first, v.liverSeedMm ? [] : [scan.data.buffer as ArrayBuffer]);
+  const warnings: string[] = [];
 
   progress(1, total, v.segments !== undefined ? 'reading the segment map' : v.landmarks !== undefined ? 'building the segment map from the landmarks' : 'reading the liver mask');
   let segments: VisitVolumes['segments'] = null;
@@ -124,25 +139,7 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress):
   }
 
   progress(3, total, 'preparing the display');
-  return {
-    patientId,
-    visitId,
-    dims: [...scan.dims],
-    affine: [...scan.affine],
-    inverse: [...scan.inverse],
-    spacingMm: [...scan.spacingMm],
-    scan: scan.data,
-    slope: scan.slope,
-    inter: scan.inter,
-    values,
-    segments,
-    segmentProblem,
-    lesions,
-    viable,
-    liverBoxMm,
-    proposal,
-    warnings,
-  };
+  return { segments, segmentProblem, lesions, viable, liverBoxMm, proposal, warnings };
 }
 
-serveJob(load, (v) => [v.scan, v.segments?.codes, v.lesions?.labels, v.viable].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));
+serveJob(load, (v) => [v.segments?.codes, v.lesions?.labels, v.viable].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : [])));
