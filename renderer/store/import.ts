@@ -91,7 +91,7 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
   if (manifests.length > 0) {
     for (const m of manifests) {
       used.add(normalisePath(m.relativePath));
-      const manifest = parseManifest(textOf(m), m.relativePath);
+      const manifest = parseManifest(textOf(m), m.relativePath, { scanOnly: true });
       // A visit's scan may name a folder of DICOM files (as for the command line).
       const dicomFolder: DicomFolder = (rel) => {
         const prefix = `${normalisePath(resolveManifestPath(m.relativePath, rel))}/`;
@@ -118,7 +118,7 @@ export async function readImport(files: OpenedFile[], opts: ReadImportOptions = 
       dicom = { files: dicomFiles, series: opts.loose.dicomSeries };
       for (const f of dicomFiles) used.add(normalisePath(f.relativePath));
     }
-    const manifest = parseManifest(JSON.stringify(looseManifest(guess.files, opts.loose)), LOOSE_DETAILS);
+    const manifest = parseManifest(JSON.stringify(looseManifest(guess.files, opts.loose)), LOOSE_DETAILS, { scanOnly: true });
     jobs.push({ manifest, source: commonFolder(files) ?? 'loose files', fromManifest: false, dicom, lookup: (_visit, _field, path) => byPath.get(normalisePath(path)) ?? missing(path) });
   }
 
@@ -364,6 +364,12 @@ export function filesOfVisit(v: ManifestVisit): string[] {
 function looseManifest(files: Partial<Record<VolumeRole | InputKind, string>>, d: LooseVisitDetails): object {
   if (files.scan === undefined) throw badInput(ALL_FILES, 'hold no scan; put "scan" in the image\'s file name (e.g. scan.nii.gz)');
   const planes = files.liver !== undefined && files.landmarks !== undefined;
+  const { scheme, ...rest } = files;
+  const visit = { id: d.visitId?.trim() || d.date, date: d.date, ...rest, scheme, splitIV: d.splitIV };
+  // A scan alone is a visit too: its liver, landmarks and lesions are made in the viewer.
+  if (Object.values(rest).filter((x) => x !== undefined).length === 1) {
+    return { patient: { id: d.patientId.trim() }, visits: [{ id: visit.id, date: visit.date, scan: files.scan }] };
+  }
   if (files.segments === undefined && !planes) {
     throw badInput(ALL_FILES, 'hold no segment map ("segments" in a file name) and no liver mask with a landmark set');
   }
@@ -376,11 +382,7 @@ function looseManifest(files: Partial<Record<VolumeRole | InputKind, string>>, d
   if (files.lesions !== undefined && files.marks !== undefined) {
     throw badInput(ALL_FILES, `hold both a lesion mask (${files.lesions}) and a marks file (${files.marks}); keep one`);
   }
-  const { scheme, ...rest } = files;
-  return {
-    patient: { id: d.patientId.trim() },
-    visits: [{ id: d.visitId?.trim() || d.date, date: d.date, ...rest, scheme, splitIV: d.splitIV }],
-  };
+  return { patient: { id: d.patientId.trim() }, visits: [visit] };
 }
 
 /** Folder and file paths compared the same way: forward slashes, no "." or ".." steps. */

@@ -37,7 +37,7 @@ export const protocol = z.strictObject({
   sdMinDays: z.number().int().min(0).max(365).optional(),
 });
 
-const visit = z
+const visitFields = z
   .strictObject({
     id,
     date: isoDate,
@@ -61,21 +61,35 @@ const visit = z
     reader: z.string().min(1).max(120).optional(),
     readDate: isoDate.optional(),
     readerCalls: readerCalls.optional(),
-  })
-  .superRefine((v, ctx) => {
-    const hasMap = v.segments !== undefined;
-    const hasPlanes = (v.liver !== undefined || v.liverSeedMm !== undefined) && v.landmarks !== undefined;
-    if (v.liver !== undefined && v.liverSeedMm !== undefined) {
-      ctx.addIssue({ code: 'custom', message: 'must give "liver" or "liverSeedMm", not both' });
-    }
-    if (hasMap === hasPlanes) {
-      ctx.addIssue({ code: 'custom', message: 'must give either "segments" or both "liver" (or "liverSeedMm") and "landmarks"' });
-    }
-    // Marks may add to a lesion mask (lesions the mask missed); at least one of them is needed.
-    if (v.lesions === undefined && v.marks === undefined) {
-      ctx.addIssue({ code: 'custom', message: 'must give "lesions", "marks" or both' });
-    }
   });
+
+type VisitFields = z.output<typeof visitFields>;
+
+/** A visit that brings its scan and nothing else yet: the app keeps it until a map and lesions are made in it. */
+export function isScanOnly(v: VisitFields): boolean {
+  return [v.segments, v.liver, v.liverSeedMm, v.landmarks, v.caudate, v.lesions, v.marks, v.viable].every((x) => x === undefined);
+}
+
+function checkVisit(v: VisitFields, ctx: z.RefinementCtx): void {
+  const hasMap = v.segments !== undefined;
+  const hasPlanes = (v.liver !== undefined || v.liverSeedMm !== undefined) && v.landmarks !== undefined;
+  if (v.liver !== undefined && v.liverSeedMm !== undefined) {
+    ctx.addIssue({ code: 'custom', message: 'must give "liver" or "liverSeedMm", not both' });
+  }
+  if (hasMap === hasPlanes) {
+    ctx.addIssue({ code: 'custom', message: 'must give either "segments" or both "liver" (or "liverSeedMm") and "landmarks"' });
+  }
+  // Marks may add to a lesion mask (lesions the mask missed); at least one of them is needed.
+  if (v.lesions === undefined && v.marks === undefined) {
+    ctx.addIssue({ code: 'custom', message: 'must give "lesions", "marks" or both' });
+  }
+}
+
+const visit = visitFields.superRefine(checkVisit);
+/** As `visit`, and a visit may also bring only its scan (the app's import). */
+const visitOrScan = visitFields.superRefine((v, ctx) => {
+  if (!isScanOnly(v)) checkVisit(v, ctx);
+});
 
 const treatment = z.strictObject({
   date: isoDate,
@@ -97,7 +111,7 @@ export const resection = z
   })
   .refine((r) => (r.preset === undefined) !== (r.segments === undefined), 'must give either "preset" or "segments"');
 
-const manifestSchema = z
+const manifestSchemaOf = (visitSchema: typeof visit) => z
   .strictObject({
     patient: z.strictObject({
       id,
@@ -109,7 +123,7 @@ const manifestSchema = z
     }),
     marginMm: z.number().nonnegative().max(100).default(10),
     criteria: z.enum(['RECIST 1.1', 'mRECIST']).optional(),
-    visits: z.array(visit).min(1, 'must list at least one visit'),
+    visits: z.array(visitSchema).min(1, 'must list at least one visit'),
     targets: z.array(id).max(5).optional(),
     treatments: z.array(treatment).optional(),
     resection: resection.optional(),
@@ -122,21 +136,26 @@ const manifestSchema = z
       seen.add(v.id);
     });
   });
+const manifestSchema = manifestSchemaOf(visit);
+const manifestWithScanOnly = manifestSchemaOf(visitOrScan);
 
 export type Manifest = z.output<typeof manifestSchema>;
 export type ManifestVisit = Manifest['visits'][number];
 export type Treatment = NonNullable<Manifest['treatments']>[number];
 export type ProposedResection = NonNullable<Manifest['resection']>;
 
-/** Reads a study manifest; visits come back in date order. Errors name the file and the field. */
-export function parseManifest(text: string, file: string): Manifest {
+/**
+ * Reads a study manifest; visits come back in date order. Errors name the file and the field.
+ * `scanOnly` lets a visit bring only its scan (the app grows its liver and lesions later).
+ */
+export function parseManifest(text: string, file: string, opts: { scanOnly?: boolean } = {}): Manifest {
   let json: unknown;
   try {
     json = JSON.parse(withoutBom(text));
   } catch (e) {
     throw badFile(file, `is not valid JSON (${(e as Error).message})`);
   }
-  const r = manifestSchema.safeParse(json);
+  const r = (opts.scanOnly ? manifestWithScanOnly : manifestSchema).safeParse(json);
   if (!r.success) throw badFile(file, describeIssue(r.error.issues[0]));
   const visits = [...r.data.visits].sort((a, b) => a.date.localeCompare(b.date));
   return { ...r.data, visits };

@@ -4,6 +4,7 @@ import { FalciformDb } from '../../renderer/store/db.js';
 import { commitImport, readImport } from '../../renderer/store/import.js';
 import { listPatients } from '../../renderer/store/patients.js';
 import { isFalciformError } from '../../src/errors.js';
+import { parseManifest } from '../../src/manifest/manifest.js';
 import { webInflate } from '../../src/volume/web-gzip.js';
 import { dbName, dropAll, dump, track } from './dump.js';
 import { LANDMARKS, patientFolder, textFile, withFile } from './fixtures.js';
@@ -154,6 +155,20 @@ describe('loose files without a manifest', () => {
     const next = await commitImport(db, await readImport(loose(), { loose: { patientId: 'LOOSE-1', date: '2026-05-04', visitId: 'v2' } }));
     expect(next).toEqual({ patients: [{ id: 'LOOSE-1', newPatient: false, visits: ['v2'] }], warnings: [] });
     expect(await db.visits.where('patientId').equals('LOOSE-1').count()).toBe(2);
+  });
+
+  it('take a scan alone as a visit waiting for its liver, landmarks and lesions; the command line still needs them', async () => {
+    const db = freshDb();
+    const scanOnly = loose().filter((f) => f.relativePath === 'scan.nii.gz');
+    await commitImport(db, await readImport(scanOnly, { loose: { patientId: 'LOOSE-2', date: '2026-02-01' } }));
+    expect(await db.visits.get(['LOOSE-2', '2026-02-01'])).toMatchObject({ volumes: ['scan'], inputs: [] });
+    // Half a visit is still refused: a segment map with no lesions says what is missing.
+    const noLesions = loose().filter((f) => f.relativePath !== 'lesions.nii.gz');
+    expect((await failure(readImport(noLesions, { loose: { patientId: 'L', date: '2026-02-01' } }))).problem).toMatch(/no lesion mask/);
+    // A manifest visit with only a scan: the app takes it, the command line's reading refuses it.
+    const text = JSON.stringify({ patient: { id: 'M-1' }, visits: [{ id: 'v1', date: '2026-02-01', scan: 'v1/scan.nii.gz' }] });
+    expect(parseManifest(text, 'manifest.json', { scanOnly: true }).visits[0]).toEqual({ id: 'v1', date: '2026-02-01', scan: 'v1/scan.nii.gz' });
+    expect(() => parseManifest(text, 'manifest.json')).toThrow(/must give either "segments" or both "liver"/);
   });
 
   it('name the file whose role cannot be told, and refuse two files for one role', async () => {
