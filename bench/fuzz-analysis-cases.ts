@@ -5,8 +5,8 @@
 // tests/fuzz/analysis.test.ts (small grids).
 //
 // The rule: each case ends in exit 0 with a correct result, or exit 3 with one short stderr line,
-// within its time budget (5 s; 1 minute for the bombs) of CPU time, and within twice that of wall
-// time (a shared machine stretches wall time), with peak RSS at most 1.5× the decompressed inputs
+// within its time budget (5 s; 1 minute for the bombs) of CPU time, and within four times that of
+// wall time (a shared machine stretches wall time), with peak RSS at most 1.5× the decompressed inputs
 // above the CLI's working set (measured by /usr/bin/time -v on the child). The working set is the
 // CLI at rest plus WORKING_SET_BYTES for the JavaScript heap (lesion records up to the cap, the JSON
 // written out), which does not grow with the grid.
@@ -52,6 +52,8 @@ export interface AnalysisCase {
 
 export const CASE_BUDGET_MS = 5000;
 export const BOMB_BUDGET_MS = 60_000;
+/** Wall time allowed as a multiple of the CPU budget: a hang fuse that a busy shared machine does not trip. */
+export const WALL_FACTOR = 4;
 /** Peak RSS allowed per decompressed input byte, above the CLI's resting footprint. */
 export const MEMORY_RATIO = 1.5;
 /** Heap allowed above the CLI at rest whatever the inputs. */
@@ -315,7 +317,7 @@ export function writeCases(dir: string, size: Size, only: readonly CaseClass[] =
 
 let runs = 0;
 
-/** Runs `falciform argv` under /usr/bin/time -v; a run past twice its budget is killed. */
+/** Runs `falciform argv` under /usr/bin/time -v; a run past WALL_FACTOR times its budget is killed. */
 export function runCli(cli: string, c: AnalysisCase): Promise<CliRun> {
   return new Promise((resolve, reject) => {
     const stats = join(tmpdir(), `falciform-fuzz-${process.pid}-${++runs}.time`);
@@ -324,7 +326,7 @@ export function runCli(cli: string, c: AnalysisCase): Promise<CliRun> {
     child.stdout.on('data', (b: Buffer) => out.push(b));
     child.stderr.on('data', (b: Buffer) => err.push(b));
     const t0 = performance.now();
-    const timer = setTimeout(() => child.kill('SIGKILL'), 2 * c.budgetMs);
+    const timer = setTimeout(() => child.kill('SIGKILL'), WALL_FACTOR * c.budgetMs);
     child.on('error', reject);
     child.on('close', (status) => {
       clearTimeout(timer);
@@ -345,7 +347,7 @@ export function runCli(cli: string, c: AnalysisCase): Promise<CliRun> {
 /** Null when the run keeps the rule, else what broke it. `restingRssBytes`: the CLI's own footprint. */
 export function judge(c: AnalysisCase, r: CliRun, restingRssBytes: number): string | null {
   if (r.cpuSeconds * 1000 > c.budgetMs) return `took ${r.cpuSeconds.toFixed(2)} s of CPU, budget ${c.budgetMs / 1000} s`;
-  if (r.seconds * 1000 > 2 * c.budgetMs) return `took ${r.seconds.toFixed(2)} s of wall time, twice the budget is ${(2 * c.budgetMs) / 1000} s`;
+  if (r.seconds * 1000 > WALL_FACTOR * c.budgetMs) return `took ${r.seconds.toFixed(2)} s of wall time, over ${WALL_FACTOR}× the budget`;
   const aim = memoryAim(c, restingRssBytes);
   if (r.peakRssBytes > aim) return `peak RSS ${mib(r.peakRssBytes)} MiB above the aim of ${mib(aim)} MiB`;
   if (r.status !== 0 && r.status !== 3) return `exit ${r.status}: ${r.stderr.slice(0, 300)}`;

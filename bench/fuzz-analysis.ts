@@ -7,7 +7,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import {
-  CLASSES, judge, mib, MEMORY_RATIO, WORKING_SET_BYTES, restingRss, runCli, writeCases, type CaseClass, type CliRun, type Size,
+  CLASSES, judge, mib, MEMORY_RATIO, WALL_FACTOR, WORKING_SET_BYTES, restingRss, runCli, writeCases, type CaseClass, type CliRun, type Size,
 } from './fuzz-analysis-cases.js';
 
 const sizes = (process.argv.length > 2 ? process.argv.slice(2) : ['small', 'bench', 'bomb']) as Size[];
@@ -21,7 +21,7 @@ const BOMB_CLASSES: CaseClass[] = ['all-set', 'lattice', 'one-voxel', 'ring'];
 
 const cli = join(process.cwd(), 'bin/falciform.js');
 const resting = await restingRss(cli);
-console.log(`fuzz-analysis: budgets in CPU seconds (wall within twice that); memory aim ${MEMORY_RATIO}× decompressed inputs `
+console.log(`fuzz-analysis: budgets in CPU seconds (wall within ${WALL_FACTOR}× that); memory aim ${MEMORY_RATIO}× decompressed inputs `
   + `above the CLI at rest (${mib(resting)} MiB) and a ${mib(WORKING_SET_BYTES)} MiB working set; Node ${process.version}`);
 let failures = 0;
 for (const size of sizes) {
