@@ -230,8 +230,8 @@ export function writeCases(dir: string, size: Size, only: readonly CaseClass[] =
   }
   if (only.includes('one-voxel')) {
     const want = size === 'small' ? 1500 : 3000;
-    const a = oneVoxelData(dims, want, 1), b = oneVoxelData(dims, want, 2);
-    const fa = lesionFile('one-voxel-a', a.data), fb = lesionFile('one-voxel-b', b.data);
+    const a = oneVoxelData(dims, want, 1);
+    const fa = lesionFile('one-voxel-a', a.data);
     const cap = ['--max-lesions', String(2 * want)];
     analyze('one-voxel', `${a.count} one-voxel lesions, default cap`, fa, { allowed: a.count > 1000 ? [3] : [0], checkResult: expectLesions(a.count, a.count) });
     analyze('one-voxel', `${a.count} one-voxel lesions, cap ${2 * want}`, fa, { allowed: [0], checkResult: expectLesions(a.count, a.count) }, { args: cap });
