@@ -4,7 +4,7 @@
 import { spawnSync } from 'node:child_process';
 import { availableParallelism } from 'node:os';
 
-const benches = ['nifti-load', 'segments-build', 'analyze-visit', 'fuzz', 'batch', 'dicom-read', 'grow-liver', 'app-viewer', 'followup-long', 'match'];
+const benches = ['nifti-load', 'segments-build', 'analyze-visit', 'fuzz', 'fuzz-analysis', 'batch', 'dicom-read', 'grow-liver', 'app-viewer', 'followup-long', 'match'];
 const build = spawnSync('npx', ['tsc', '-p', 'tsconfig.node.json'], { stdio: 'inherit' });
 if (build.status !== 0) process.exit(build.status ?? 1);
 const renderer = spawnSync('npx', ['vite', 'build', '--logLevel', 'warn'], { stdio: 'inherit' });

@@ -131,7 +131,7 @@ async function loadVisit(
     viable = {
       components: found.lesions.map((lv, n) => {
         const m = measureMaskLesion(`V${n + 1}`, mask, lv, null);
-        return { centroidMm: m.centroidMm, viableAxialMm: longestInsideAxial(mask, lv).lengthMm };
+        return { centroidMm: m.centroidMm, viableAxialMm: longestInsideAxial(mask, lv, files.viable).lengthMm };
       }),
     };
   }

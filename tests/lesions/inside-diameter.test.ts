@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { lesionsFromMask } from '../../src/lesions/components.js';
-import { longestInsideAxial } from '../../src/lesions/inside-diameter.js';
+import { longestInsideAxial, MAX_PAIR_TESTS } from '../../src/lesions/inside-diameter.js';
+import { isFalciformError } from '../../src/errors.js';
 import { measureMaskLesion } from '../../src/lesions/measures.js';
 import { ellipsoid, obliqueAffine, paint, volume, type Dims } from './fixtures.js';
 
@@ -127,5 +128,43 @@ describe('longest axial diameter inside a region', () => {
     const d = longestInsideAxial(mask, lesionsFromMask(mask).lesions[0]);
     expect(d.lengthMm).toBe(0);
     expect(d.endpointsMm![0]).toEqual([1, 1, 1]);
+  });
+});
+
+describe('bounded cost on large thin rims', () => {
+  const ringSlices = (dims: Dims, radii: (k: number) => [number, number]) => {
+    const [nx, ny, nz] = dims;
+    const data = new Uint8Array(nx * ny * nz);
+    for (let k = 0; k < nz; k++) {
+      const [R, r] = radii(k);
+      for (let j = 0; j < ny; j++)
+        for (let i = 0; i < nx; i++) {
+          const d = Math.hypot(i - (nx - 1) / 2, j - (ny - 1) / 2);
+          if (d <= R && d > r) data[i + nx * (j + ny * k)] = 1;
+        }
+    }
+    const mask = volume(dims, data, obliqueAffine([1, 1, 1], [0, 0, 0], [0, 0, 0]), 'uint8');
+    return { mask, voxels: lesionsFromMask(mask).lesions[0] };
+  };
+
+  it('a 200-slice cylinder of one ring (200 times the pairs of one slice, were each measured): 2·√(R² − r²)', () => {
+    // Source: analytic geometry (the tangent chord, as above); R = 60, r = 50 voxel units of 1 mm.
+    const { mask, voxels } = ringSlices([124, 124, 200], () => [60, 50]);
+    const d = longestInsideAxial(mask, voxels);
+    expect(Math.abs(d.lengthMm - 2 * Math.sqrt(60 * 60 - 50 * 50))).toBeLessThanOrEqual(Math.SQRT2);
+  });
+
+  it('a rim whose slices need more than the cap of voxel-pair tests is refused as too large, naming the file', () => {
+    // One slice of a thin ring 2000 voxels across: some 12,500 boundary voxels, 7.8·10⁷ pairs.
+    const { mask, voxels } = ringSlices([2004, 2004, 1], () => [1000, 998]);
+    let caught: unknown;
+    try {
+      longestInsideAxial(mask, voxels, 'v2/viable.nii.gz');
+    } catch (e) {
+      caught = e;
+    }
+    expect(isFalciformError(caught) && caught.kind).toBe('too-large');
+    expect((caught as Error).message).toMatch(/^v2\/viable\.nii\.gz: a component of \d+ voxels would need more than 5e\+7 voxel-pair tests/);
+    expect(MAX_PAIR_TESTS).toBe(5e7);
   });
 });
