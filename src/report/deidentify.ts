@@ -61,7 +61,8 @@ export function deidentifyReport(input: ReportInput, opts: { patientId: string; 
   return {
     input: shifted,
     note: `Dates are shifted ${Math.abs(opts.shiftDays)} days ${dir} by a per-patient offset derived from the pseudonym ` +
-      '(days between visits and from baseline are kept; the real dates are not shown); file paths are cut to names within the study folder.',
+      '(days between visits and from baseline are kept; the real dates are not shown); ' +
+      (folder ? 'file paths are cut to names within the study folder.' : 'file paths are cut to file names.'),
   };
 }
 

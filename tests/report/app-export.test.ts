@@ -41,6 +41,7 @@ describe('pseudonymised exports of the app', () => {
       }
       // The page says what it keeps and what it shifted.
       expect(out.note).toMatch(new RegExp(`Dates are shifted ${Math.abs(shiftDays)} days (later|earlier)`));
+      expect(out.note).toMatch(/file paths are cut to file names\.$/);
       expect(out.summary.patient.pseudonymNote).toContain(out.note);
       expect(page).toContain(`Dates are shifted ${Math.abs(shiftDays)} days`);
       expect(out.caseForm.every((r) => r.dates_shifted === 'yes')).toBe(true);
