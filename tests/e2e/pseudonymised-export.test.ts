@@ -2,6 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { gunzipSync } from 'node:zlib';
 import { parse } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
@@ -85,6 +86,16 @@ describe('a pseudonymised export from the app', () => {
     expect(rows).toEqual(parse(readFileSync(join(dir, 'cli', 'case-form.csv'), 'utf8'), { columns: true }));
     expect(await page.getByTestId('board-status').textContent()).toContain('its dates are shifted');
     await page.screenshot({ path: 'test-results/board-pseudonymised-export.png', fullPage: true });
+
+    // The segment map: named by the pseudonym; its NIfTI-1 descrip (80 bytes at offset 148, nifti1.h)
+    // says DEMO for the demo patient and holds neither the id nor a date.
+    const [mapDownload] = await Promise.all([page.waitForEvent('download'), page.locator('[data-testid="board-map"][data-visit="v2"]').click()]);
+    expect(mapDownload.suggestedFilename()).toMatch(/^PS-[0-9A-F]{12}-segments-v2\.nii\.gz$/);
+    const nifti = gunzipSync(readFileSync((await mapDownload.path())!));
+    const descrip = new TextDecoder().decode(nifti.subarray(148, 228)).replace(/\0+$/, '');
+    expect(descrip).toMatch(/segment map v2 DEMO; not a medical device$/);
+    expect(descrip).not.toContain('DEMO-0001');
+    expect(descrip).not.toMatch(/\d{4}-\d{2}-\d{2}/);
 
     await page.emulateMedia({ media: 'print' });
     const pdf = join(dir, 'board.pdf');
