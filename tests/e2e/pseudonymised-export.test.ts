@@ -118,4 +118,20 @@ describe('a pseudonymised export from the app', () => {
     await expect.poll(async () => words(await sheet().getByTestId('board-patient').textContent())).toBe(before);
     expect(errors).toEqual([]);
   });
+
+  it('a lesion cap set below a mask\'s lesions refuses it by name and count, as --max-lesions does', async () => {
+    await page.getByTestId('lesion-cap-change').click();
+    await page.getByTestId('lesion-cap-input').fill('2');
+    await page.getByTestId('lesion-cap-save').click();
+    expect(words(await page.getByTestId('lesion-cap').textContent())).toContain('Lesion cap: 2 per visit');
+    await page.reload();
+    // Visit v1 of DEMO-0001 has three lesions in its mask.
+    const refusal = page.getByText(/holds 3 lesions \(26-connected components\), above the cap of 2 lesions per visit/).first();
+    await refusal.waitFor({ timeout: 60_000 });
+    expect(await refusal.textContent()).toMatch(/lesions/);
+    await page.screenshot({ path: 'test-results/lesion-cap-refusal.png', fullPage: true });
+    await page.getByTestId('lesion-cap-change').click();
+    await page.getByTestId('lesion-cap-input').fill('1000');
+    await page.getByTestId('lesion-cap-save').click();
+  });
 });
