@@ -1,4 +1,5 @@
 import { Caution } from './components/Caution';
+import { LesionCap } from './components/LesionCap';
 import { ReaderName } from './components/ReaderName';
 import { RouteLink } from './components/RouteLink';
 import { ScreenBoundary } from './components/ScreenBoundary';
@@ -18,7 +19,7 @@ export function App() {
           <RouteLink to={{ screen: 'patients' }}>Falciform</RouteLink>
         </h1>
         <span className="tagline">Liver lesions by Couinaud segment, visit after visit</span>
-        <span className="version"><ReaderName /> v{VERSION}</span>
+        <span className="version"><ReaderName /> <LesionCap /> v{VERSION}</span>
         <RouteLink to={{ screen: 'about' }} className="about-link">About</RouteLink>
       </header>
       <main className="app-main">

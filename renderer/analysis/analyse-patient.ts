@@ -1,6 +1,7 @@
 import type { Override } from '../../src/followup/tracks.js';
 import { followupOfPatient, loadPatientFrom } from '../../src/patient/load.js';
 import type { FalciformDb } from '../store/db.js';
+import { getSetting } from '../store/patients.js';
 import { patientOverrides } from '../store/track-edits.js';
 import { storedPatient } from './store-source.js';
 import { WAITING_FOR_MAP, type PatientAnalysis } from './types.js';
@@ -14,6 +15,8 @@ export async function analysePatient(db: FalciformDb, patientId: string, progres
   const waiting = stored.manifest.visits.filter((v) => v.segments === undefined && v.landmarks === undefined);
   const manifest = { ...stored.manifest, visits: stored.manifest.visits.filter((v) => !waiting.includes(v)) };
   if (manifest.visits.length === 0) throw new Error(`no visit of ${patientId} has a segment map yet; grow the liver and place landmarks in the viewer`);
+  // The lesions-per-visit cap, as the command line's --max-lesions: a mask above it is refused naming the file and the count.
+  const maxLesions = await getSetting(db, 'maxLesions');
   const total = manifest.visits.length + 1;
   let done = 0;
   // Visits one at a time, reporting each, so a long series shows progress.
@@ -21,7 +24,7 @@ export async function analysePatient(db: FalciformDb, patientId: string, progres
   for (const v of manifest.visits) {
     progress(done, total, `visit ${v.id} (${v.date})`);
     // Key images are drawn here, while the scan is in hand, for the board page.
-    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files, { keyImages: true });
+    const one = await loadPatientFrom({ ...manifest, visits: [v] }, patientId, files, { keyImages: true, maxLesions });
     visits.push(one.visits[0]);
     done++;
   }

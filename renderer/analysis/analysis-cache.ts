@@ -23,6 +23,12 @@ Dexie.on('storagemutated', (parts: ObservabilitySet) => {
   kept.clear();
 });
 
+/** Forgets every kept analysis: after a setting an analysis reads (the lesion cap) is changed. */
+export function forgetKeptAnalyses(): void {
+  storeChanges++;
+  kept.clear();
+}
+
 /**
  * The patient's analysis computed earlier in this session from the store as it still is, or null.
  * Reopening a patient then draws at once instead of reading and analysing every visit again.

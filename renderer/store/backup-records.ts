@@ -37,6 +37,8 @@ const dicomFacts = z.strictObject({
 export const SETTING_SCHEMAS: { [K in keyof typeof DEFAULT_SETTINGS]: z.ZodType<(typeof DEFAULT_SETTINGS)[K]> } = {
   marginMm: z.number().nonnegative().max(100),
   readerName: z.string().max(120),
+  maxLesions: z.number().int().min(1).max(1_000_000),
+  pseudonymKey: z.string().max(1000),
   demoOffered: z.boolean(),
   windowPresets: z.array(z.strictObject({
     name: z.string().min(1).max(40),

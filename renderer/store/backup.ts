@@ -1,7 +1,7 @@
 import { badFile, badInput } from '../../src/errors.js';
 import type { z } from 'zod';
 import { describeJsonValue } from '../../src/json-file.js';
-import { TABLE_NAMES, type AuditRecord, type SettingRecord, type StoreTables, type TableName, type VolumeRecord } from '../../src/model/records.js';
+import { PRIVATE_SETTINGS, TABLE_NAMES, type AuditRecord, type SettingRecord, type StoreTables, type TableName, type VolumeRecord } from '../../src/model/records.js';
 import { VERSION } from '../../src/version.js';
 import { HEADER_BYTES_NEEDED, parseNiftiHeader } from '../../src/volume/nifti-header.js';
 import { isGzip } from '../../src/volume/nifti-read.js';
@@ -45,7 +45,8 @@ export async function createBackup(db: FalciformDb, scope: BackupScope): Promise
     const out = {} as Record<TableName, object[]>;
     for (const name of TABLE_NAMES) {
       const table = db.table(name);
-      if (scope === 'all') out[name] = await table.toArray();
+      // Private settings (the pseudonym key) stay on this computer.
+      if (scope === 'all') out[name] = name === 'settings' ? await db.settings.filter((s) => !PRIVATE_SETTINGS.includes(s.key)).toArray() : await table.toArray();
       else if (name === 'settings') out[name] = [];
       else out[name] = await table.where(name === 'patients' ? 'id' : 'patientId').anyOf(scope.patientIds).toArray();
     }

@@ -1,6 +1,6 @@
 import { badInput } from '../../src/errors.js';
 import {
-  DEFAULT_SETTINGS, type AuditRecord, type JsonValue, type PatientRecord,
+  DEFAULT_SETTINGS, PRIVATE_SETTINGS, type AuditRecord, type JsonValue, type PatientRecord,
 } from '../../src/model/records.js';
 import { SETTING_SCHEMAS } from './backup-records.js';
 import type { FalciformDb } from './db.js';
@@ -121,7 +121,9 @@ export async function setSetting<K extends SettingKey>(db: FalciformDb, key: K, 
     const old = await getSetting(db, key);
     const json = value as unknown as JsonValue;
     await db.settings.put({ key, value: json });
-    await recordEdit(db, { entity: 'setting', entityId: key, field: 'value', action: 'update', oldValue: old as unknown as JsonValue, newValue: json });
+    // A private setting's trail entry says that it changed, never what it holds.
+    const shown = (v: JsonValue): JsonValue => (PRIVATE_SETTINGS.includes(key) ? (v === '' ? 'not set' : 'set') : v);
+    await recordEdit(db, { entity: 'setting', entityId: key, field: 'value', action: 'update', oldValue: shown(old as unknown as JsonValue), newValue: shown(json) });
   });
 }
 

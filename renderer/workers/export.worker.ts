@@ -7,13 +7,15 @@ import { webGzip } from '../../src/volume/web-gzip';
 import { storedPatient } from '../analysis/store-source';
 import type { ExportRequest } from '../report/export-segment-map';
 import { appDb } from '../store/db';
+import { getSetting } from '../store/patients';
 import { serveJob } from './job';
 
 serveJob(
   async ({ patientId, visitId }: ExportRequest) => {
     const { manifest, files } = await storedPatient(appDb(), patientId);
-    const { segmentMap } = await loadVisitWithMap(manifest, patientId, files, visitId);
-    return webGzip(segmentMapNifti(segmentMap, visitId));
+    const { segmentMap } = await loadVisitWithMap(manifest, patientId, files, visitId, { maxLesions: await getSetting(appDb(), 'maxLesions') });
+    // The header's description says DEMO for a demo patient, as the command line's export does.
+    return webGzip(segmentMapNifti(segmentMap, visitId, manifest.patient.demo === true));
   },
   (bytes) => [bytes.buffer as ArrayBuffer],
 );

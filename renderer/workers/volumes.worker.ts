@@ -17,6 +17,7 @@ import { resampleNearest } from '../../src/volume/resample';
 import { storedPatient } from '../analysis/store-source';
 import { errorText } from '../error-text';
 import { appDb } from '../store/db';
+import { getSetting } from '../store/patients';
 import type { LandmarkProposal, VisitOverlays, VisitScan, VisitVolumes, VolumesRequest } from '../viewer/volume-messages';
 import { summariseValues } from '../viewer/window-level';
 import { serveJob, type Part, type Progress } from './job';
@@ -118,7 +119,7 @@ async function load({ patientId, visitId }: VolumesRequest, progress: Progress, 
   let lesions: VisitVolumes['lesions'] = null;
   if (v.lesions !== undefined) {
     const mask = (await files.volume(v.lesions)).volume;
-    const found = lesionsFromMask(mask, files.name(v.lesions));
+    const found = lesionsFromMask(mask, files.name(v.lesions), await getSetting(appDb(), 'maxLesions'));
     // One byte a voxel unless a mask holds more than 255 lesions.
     const own = found.lesions.length < 256 ? new Uint8Array(mask.data.length) : new Uint16Array(mask.data.length);
     // Ids as the analysis numbers them: L1, L2, … in the order lesionsFromMask gives.

@@ -48,6 +48,7 @@ const ENTRIES: Record<CaseFormColumn, Entry> = {
   outside_liver: ['text', '', "The reader's assessment outside the liver: none, not-assessed, stable or progression"],
   best_response: ['text', '', "On the latest visit's rows: best overall response with its confirmation and the date of progression"],
   progression_date: ['date', '', 'Date of progression; empty while there is none'],
+  dates_shifted: ['yes/no', '', 'yes in a pseudonymised export: every date is moved by one per-patient offset (days between visits kept), not the real date'],
 };
 
 export const DICTIONARY_COLUMNS = ['variable', 'type', 'unit', 'meaning'] as const;

@@ -1,5 +1,6 @@
 import type { VisitReaderCalls } from '../followup/reader-calls.js';
 import type { Manifest, ProposedResection } from '../manifest/manifest.js';
+import { DEFAULT_MAX_LESIONS } from '../lesions/components.js';
 import type { Datatype } from '../volume/volume.js';
 
 /**
@@ -166,8 +167,14 @@ export interface SettingRecord {
 }
 
 /** The settings the app knows, with their values before anyone changes them. */
-export const DEFAULT_SETTINGS: { marginMm: number; windowPresets: WindowPreset[]; demoOffered: boolean; readerName: string } = {
+export const DEFAULT_SETTINGS: {
+  marginMm: number; windowPresets: WindowPreset[]; demoOffered: boolean; readerName: string; maxLesions: number; pseudonymKey: string;
+} = {
   marginMm: 10,
+  // Lesions per visit above which a mask is refused, naming the file and the count (the command line's --max-lesions).
+  maxLesions: DEFAULT_MAX_LESIONS,
+  // The key of keyed pseudonyms on exports; kept on this computer only, never in a backup, an export or the trail.
+  pseudonymKey: '',
   // Who is reading on this computer: set once in the app, written on every trail entry and the case form.
   readerName: '',
   // Set once the demo patients were offered on first start, so removing them is final.
@@ -179,6 +186,9 @@ export const DEFAULT_SETTINGS: { marginMm: number; windowPresets: WindowPreset[]
     { name: 'Bone', centre: 400, width: 1800 },
   ],
 };
+
+/** Settings that stay on this computer: left out of backups, and their values left out of the edit trail. */
+export const PRIVATE_SETTINGS: readonly string[] = ['pseudonymKey'];
 
 export type AuditEntity = 'patient' | 'visit' | 'lesion' | 'track' | 'override' | 'treatment' | 'setting';
 export type AuditAction = 'create' | 'update' | 'delete' | 'import' | 'restore';

@@ -22,6 +22,7 @@ export const CASE_FORM_COLUMNS = [
   'change_from_baseline_pct', 'change_from_nadir_pct', 'software', 'caution',
   'row_type', 'evaluation', 'response_basis', 'modality', 'contrast_phase', 'slice_thickness_mm', 'reader', 'reading_date',
   'viable_axial_mm', 'new_lesion_call', 'non_target_call', 'outside_liver', 'best_response', 'progression_date',
+  'dates_shifted',
 ] as const;
 
 /** On every row beside `response`: the category is worked out from the measurements, not read. */
@@ -30,6 +31,8 @@ export const RESPONSE_BASIS = 'computed';
 export interface CaseFormOptions {
   /** The reader's name for visits whose manifest names none (the app's reader name). */
   reader?: string;
+  /** The dates are a pseudonymised export's shifted ones (the `dates_shifted` column says so on every row). */
+  datesShifted?: boolean;
 }
 
 export type CaseFormColumn = (typeof CASE_FORM_COLUMNS)[number];
@@ -90,6 +93,7 @@ export function caseFormRows(input: ReportInput, patientLabel: string, opts: Cas
       outside_liver: k === 0 ? '' : v.readerCalls.outsideLiver,
       best_response: k === f.visits.length - 1 ? bestResponseText(f.bestResponse) : '',
       progression_date: f.bestResponse.progression?.date ?? '',
+      dates_shifted: yesNo(opts.datesShifted === true),
     };
     const newCall = (t: TrackSummary | undefined) => {
       if (!t || k === 0 || t.firstVisit === baseline.id) return '';

@@ -1,5 +1,7 @@
+import { buildBoardSummary, type BoardSummary } from './board-summary.js';
+import { caseFormRows, type CaseFormOptions, type CaseFormRow } from './case-form.js';
 import type { ReportInput } from './input.js';
-import { scrubId } from './pseudonym.js';
+import { scrubId, type Pseudonym } from './pseudonym.js';
 
 /**
  * What a pseudonymised report keeps, after DICOM PS3.15 Annex E (basic profile) as the reference for
@@ -59,6 +61,40 @@ export function deidentifyReport(input: ReportInput, opts: { patientId: string; 
   return {
     input: shifted,
     note: `Dates are shifted ${Math.abs(opts.shiftDays)} days ${dir} by a per-patient offset derived from the pseudonym ` +
-      '(days between visits and from baseline are kept; the real dates are not shown); file paths are cut to names within the study folder.',
+      '(days between visits and from baseline are kept; the real dates are not shown); ' +
+      (folder ? 'file paths are cut to names within the study folder.' : 'file paths are cut to file names.'),
   };
+}
+
+/** A report ready to export: its input (de-identified when pseudonymised), its board summary and its case-form rows. */
+export interface ReportExport {
+  input: ReportInput;
+  summary: BoardSummary;
+  caseForm: CaseFormRow[];
+  /** What a pseudonymised export keeps and shifted; null for an export under the real id. */
+  note: string | null;
+}
+
+/**
+ * The one way an export is prepared, by the command line and the app alike: with a pseudonym, dates
+ * are shifted by `shiftDays` (the pseudonym's `dateShiftDays`), paths cut to names within `studyFolder` (or to bare file
+ * names when it is empty), the id replaced everywhere, and the page and case form say so.
+ */
+export function prepareReportExport(
+  whole: ReportInput,
+  opts: { pseudonym: Pseudonym | null; shiftDays: number; studyFolder: string; madeAt: Date; caseForm?: CaseFormOptions },
+): ReportExport {
+  const { pseudonym } = opts;
+  const patientId = whole.manifest.patient.id;
+  const deidentified = pseudonym
+    ? deidentifyReport(whole, { patientId, pseudonymId: pseudonym.id, studyFolder: opts.studyFolder, shiftDays: opts.shiftDays })
+    : null;
+  const input = deidentified?.input ?? whole;
+  const built = buildBoardSummary(input, { madeAt: opts.madeAt, pseudonym });
+  // The page states what a pseudonymised copy keeps: the dates are shifted, paths cut.
+  const summary = deidentified && built.patient.pseudonymNote
+    ? { ...built, patient: { ...built.patient, pseudonymNote: `${built.patient.pseudonymNote} ${deidentified.note}` } }
+    : built;
+  const caseForm = caseFormRows(input, pseudonym?.id ?? patientId, { ...opts.caseForm, datesShifted: deidentified !== null });
+  return { input, summary, caseForm, note: deidentified?.note ?? null };
 }

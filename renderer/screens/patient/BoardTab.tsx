@@ -3,9 +3,9 @@ import { createPortal, flushSync } from 'react-dom';
 import type { PatientRemnant } from '../../../src/remnant/for-patient';
 import { boardSheetsHtml } from '../../../src/report/board-html';
 import { PAGE_SIZES, type PageSize } from '../../../src/report/board-style';
-import { buildBoardSummary } from '../../../src/report/board-summary';
-import { caseFormCsv, caseFormRows } from '../../../src/report/case-form';
+import { caseFormCsv } from '../../../src/report/case-form';
 import { utf8 } from '../../../src/report/csv';
+import { dateShiftDays, prepareReportExport } from '../../../src/report/deidentify';
 import type { ReportInput } from '../../../src/report/input';
 import { keyedPseudonym, randomPseudonym, type Pseudonym } from '../../../src/report/pseudonym';
 import { segmentMapFileName } from '../../../src/report/segment-map-export';
@@ -14,7 +14,7 @@ import { visitRemnant } from '../../analysis/remnant';
 import { errorText } from '../../error-text';
 import { desktopBridge, savedWhere, saveBytes } from '../../platform/bridge';
 import { appDb } from '../../store/db';
-import { getSetting } from '../../store/patients';
+import { getSetting, setSetting } from '../../store/patients';
 import { useBoardStylesheet } from '../../report/board-stylesheet';
 import { exportSegmentMap } from '../../report/export-segment-map';
 
@@ -30,17 +30,29 @@ export function BoardTab() {
   const [page, setPage] = useState<PageSize>('A4');
   const [pseudonymise, setPseudonymise] = useState(false);
   const [key, setKey] = useState('');
-  const [pseudonym, setPseudonym] = useState<Pseudonym | null>(null);
+  const [pseudonym, setPseudonym] = useState<{ p: Pseudonym; shiftDays: number } | null>(null);
+  const [reader, setReader] = useState('');
   const [madeAt, setMadeAt] = useState(() => new Date());
   const [status, setStatus] = useState<Status>(null);
   useBoardStylesheet(page);
 
+  // The key is a setting kept on this computer (never in a backup or an export); the reader's name goes on the case form.
+  useEffect(() => {
+    void getSetting(appDb(), 'pseudonymKey').then(setKey);
+    void getSetting(appDb(), 'readerName').then(setReader);
+  }, []);
+  const saveKey = () => void getSetting(appDb(), 'pseudonymKey').then((old) => (old === key ? undefined : setSetting(appDb(), 'pseudonymKey', key)));
+
   // A random pseudonym is drawn each time pseudonymising is switched on; a keyed one follows the key.
+  // Its date shift is derived from it, as on the command line.
   useEffect(() => {
     let live = true;
     if (!pseudonymise) setPseudonym(null);
-    else if (key) void keyedPseudonym(patient.id, key).then((p) => live && setPseudonym(p));
-    else setPseudonym(randomPseudonym());
+    else {
+      void (key ? keyedPseudonym(patient.id, key) : Promise.resolve(randomPseudonym()))
+        .then(async (p) => ({ p, shiftDays: await dateShiftDays(p.id) }))
+        .then((x) => live && setPseudonym(x));
+    }
     return () => { live = false; };
   }, [pseudonymise, key, patient.id]);
 
@@ -58,10 +70,16 @@ export function BoardTab() {
   }, [analysis, patient]);
 
   const pending = pseudonymise && !pseudonym;
-  const summary = useMemo(() => (input && !pending ? buildBoardSummary(input, { madeAt, pseudonym }) : null), [input, madeAt, pseudonym, pending]);
-  const sheets = useMemo(() => (summary ? boardSheetsHtml(summary) : []), [summary]);
-  if (!analysis || !input || !summary) return <p className="empty">Preparing the board summary…</p>;
-  const label = summary.patient.label;
+  // The same preparation as the command line's report: pseudonymised, dates shifted and paths cut to file names.
+  const prepared = useMemo(
+    () => (input && !pending
+      ? prepareReportExport(input, { pseudonym: pseudonym?.p ?? null, shiftDays: pseudonym?.shiftDays ?? 0, studyFolder: '', madeAt, caseForm: { reader } })
+      : null),
+    [input, madeAt, pseudonym, pending, reader],
+  );
+  const sheets = useMemo(() => (prepared ? boardSheetsHtml(prepared.summary) : []), [prepared]);
+  if (!analysis || !input || !prepared) return <p className="empty">Preparing the board summary…</p>;
+  const label = prepared.summary.patient.label;
 
   const print = async () => {
     // The page says when it was made: the moment of printing.
@@ -82,10 +100,11 @@ export function BoardTab() {
 
   const exportCsv = async () => {
     try {
-      const csv = caseFormCsv(caseFormRows(input, label, { reader: await getSetting(appDb(), 'readerName') }));
+      const csv = caseFormCsv(prepared.caseForm);
       const name = `${label}-case-form.csv`;
       const saved = await saveBytes(name, utf8(csv), 'text/csv');
-      setStatus(saved ? { kind: 'done', text: `Case form exported (${csv.split('\r\n').length - 2} rows).${savedWhere(name)}` } : null);
+      const shifted = prepared.note ? ' Pseudonymised: its dates are shifted (column dates_shifted).' : '';
+      setStatus(saved ? { kind: 'done', text: `Case form exported (${prepared.caseForm.length} rows).${shifted}${savedWhere(name)}` } : null);
     } catch (e) {
       setStatus({ kind: 'problem', text: `The case form was not exported: ${errorText(e)}` });
     }
@@ -119,8 +138,8 @@ export function BoardTab() {
         </label>
         {pseudonymise && (
           <label>
-            Key (optional, for a stable pseudonym)
-            <input type="password" data-testid="board-key" value={key} autoComplete="off" onChange={(e) => setKey(e.target.value)} />
+            Key (optional, for a stable pseudonym; kept on this computer only)
+            <input type="password" data-testid="board-key" value={key} autoComplete="off" onChange={(e) => setKey(e.target.value)} onBlur={saveKey} />
           </label>
         )}
         <div className="board-actions">
@@ -132,7 +151,7 @@ export function BoardTab() {
         <span className="board-maps-title">Export segment map (NIfTI):</span>
         {analysis.visits.map((v) => (
           <button key={v.id} type="button" data-testid="board-map" data-visit={v.id} onClick={() => void exportMap(v.id)}>
-            {v.id} ({v.date})
+            {v.id}{prepared.note ? '' : ` (${v.date})`}
           </button>
         ))}
       </div>

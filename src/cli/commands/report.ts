@@ -8,15 +8,14 @@ import { parseManifest } from '../../manifest/manifest.js';
 import type { LoadedVisit } from '../../patient/load.js';
 import { remnantForPatient } from '../../remnant/for-patient.js';
 import { resectionPreset, RESECTION_PRESETS } from '../../remnant/resections.js';
-import { buildBoardSummary } from '../../report/board-summary.js';
 import { boardDocument } from '../../report/board-html.js';
 import { PAGE_SIZES, type PageSize } from '../../report/board-style.js';
-import { caseFormCsv, caseFormRows } from '../../report/case-form.js';
+import { caseFormCsv } from '../../report/case-form.js';
 import { utf8 } from '../../report/csv.js';
 import { reportVisit, type ReportInput } from '../../report/input.js';
 import { keyedPseudonym, pseudonymNote, randomPseudonym, type Pseudonym } from '../../report/pseudonym.js';
 import { customSchemeJson } from '../../report/scheme-export.js';
-import { dateShiftDays, deidentifyReport } from '../../report/deidentify.js';
+import { dateShiftDays, prepareReportExport } from '../../report/deidentify.js';
 import { segmentMapFileName, segmentMapNifti } from '../../report/segment-map-export.js';
 import { loadVisitWithMap } from '../../report/visit-maps.js';
 import { maxLesionsOption, optionalOption, parseArgs, requireOption, UsageError } from '../args.js';
@@ -90,25 +89,14 @@ export const report: Command = {
       remnant,
     };
     // Pseudonymised: dates shifted per patient, paths cut to the study, the id replaced everywhere.
-    const deidentified = pseudonym
-      ? deidentifyReport(whole, {
-        patientId: manifest.patient.id,
-        pseudonymId: pseudonym.id,
-        studyFolder: dirname(resolve(manifestFile)),
-        shiftDays: await dateShiftDays(pseudonym.id),
-      })
-      : null;
-    const input = deidentified?.input ?? whole;
-    if (deidentified) notes.push(deidentified.note);
+    const shiftDays = pseudonym ? await dateShiftDays(pseudonym.id) : 0;
+    const prepared = prepareReportExport(whole, { pseudonym, shiftDays, studyFolder: dirname(resolve(manifestFile)), madeAt: new Date() });
+    const { input, summary } = prepared;
+    if (prepared.note) notes.push(prepared.note);
     if (input.remnant) input.remnant.warnings.forEach((w) => notes.push(`remnant: ${w}`));
-    const built = buildBoardSummary(input, { madeAt: new Date(), pseudonym });
-    // The page states what a pseudonymised copy keeps: the dates are shifted, paths cut.
-    const summary = deidentified && built.patient.pseudonymNote
-      ? { ...built, patient: { ...built.patient, pseudonymNote: `${built.patient.pseudonymNote} ${deidentified.note}` } }
-      : built;
     const htmlPath = join(outDir, 'board-summary.html');
     await put('board-summary.html', utf8(boardDocument(summary, page, embeddedFontCss())));
-    await put('case-form.csv', utf8(caseFormCsv(caseFormRows(input, pseudonym?.id ?? manifest.patient.id))));
+    await put('case-form.csv', utf8(caseFormCsv(prepared.caseForm)));
 
     if (!args.options.has('no-pdf')) {
       const browser = findBrowser();
