@@ -136,7 +136,7 @@ describe('no network: the served app', () => {
 
     await explore(r.page);
     // Still rendered and responsive: the frame, the caution, and React still answering events.
-    await expect(r.page.getByRole('heading', { name: 'Falciform' }).isVisible()).resolves.toBe(true);
+    await expect(r.page.getByRole('heading', { name: 'Falciform', exact: true }).isVisible()).resolves.toBe(true);
     await expect(r.page.getByTestId('caution').textContent()).resolves.toMatch(/not a medical device/);
     expect(await r.page.evaluate(() => document.getElementById('root')!.childElementCount)).toBeGreaterThan(0);
     // Local storage of patients (IndexedDB) needs no network either.

@@ -95,7 +95,7 @@ describe('remnant planning in the browser', () => {
     expect(await page.getByTestId('remnant-alerts').textContent()).toMatch(/A \(L1\) in VIII, .* mm from .*: would stay in the remnant/);
 
     // Body surface area by Mosteller (N Engl J Med 1987;317:1098): √(180 × 90 / 3600) = 2.12 m².
-    await page.getByRole('button', { name: 'Change' }).click();
+    await page.getByTestId('body-size').getByRole('button', { name: 'Change' }).click();
     await page.getByTestId('body-height').fill('180');
     await page.getByTestId('body-weight').fill('90');
     await page.getByTestId('body-save').click();
