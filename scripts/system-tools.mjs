@@ -38,6 +38,7 @@ export const SYSTEM_TOOLS = [
   { pkg: 'python3-pil', why: 'reading the board page\'s key images back (Pillow)', module: 'PIL' },
   { pkg: 'dcm2niix', why: 'DICOM-to-NIfTI reference conversions', present: () => onPath('dcm2niix') },
   { pkg: 'libgdcm-tools', why: 'JPEG-LS and JPEG 2000 DICOM test series, lossless and lossy (gdcmconv)', present: () => onPath('gdcmconv') },
+  { pkg: 'time', why: 'peak memory of the command line in the analysis fuzz tests (/usr/bin/time -v)', present: () => existsSync('/usr/bin/time') },
   { pkg: 'poppler-utils', why: 'PDF pages, text and fonts (pdfinfo, pdftotext, pdffonts)', present: () => ['pdfinfo', 'pdftotext', 'pdffonts'].every(onPath) },
   { pkg: 'slurm-wlm', why: 'the cluster batch test (sbatch, slurmctld, slurmd)', present: () => ['sbatch', 'slurmctld', 'slurmd'].every(onPath) },
   { pkg: 'munge', why: 'authentication for the cluster batch test (munged)', present: () => onPath('munged') || existsSync('/usr/sbin/munged') },
