@@ -1,5 +1,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync, mkdirSync } from 'node:fs';
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { startWebServer } from '../../main/web-server.js';
 
 /** Debian's Chromium, headless, never a downloaded browser. */
 export const CHROMIUM = process.env.FALCIFORM_TEST_CHROMIUM ?? '/usr/bin/chromium';
@@ -38,4 +40,17 @@ export async function startServedApp(dataDir: string): Promise<{ app: ChildProce
     app.on('exit', (code) => reject(new Error(`start exited early with ${code}: ${out}`)));
   });
   return { app, url };
+}
+
+/** The built app served on loopback and one Chromium page at a desktop size, for a viewer-screen test. */
+export interface OpenedApp { url: string; page: Page; errors: string[]; close: () => Promise<void> }
+
+export async function openBuiltApp(): Promise<OpenedApp> {
+  if (!existsSync('build/renderer/index.html')) throw new Error('build the renderer first: npx vite build');
+  mkdirSync('test-results', { recursive: true });
+  const server = await startWebServer('build/renderer');
+  const browser = await launchChromium();
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const page = await context.newPage();
+  return { url: server.url, page, errors: watchErrors(page), close: async () => { await browser.close(); await server.close(); } };
 }

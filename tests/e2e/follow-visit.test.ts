@@ -1,9 +1,8 @@
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { patients } from '../../demo-data/scenario.js';
-import { startWebServer, type WebServer } from '../../main/web-server.js';
-import { launchChromium, watchErrors } from './browser.js';
+import { openBuiltApp, type OpenedApp } from './browser.js';
 
 // A follow-up visit that brings only its scan, read to the end in headless Chromium: the liver grown
 // from a click and accepted, the landmarks proposed from the earlier visit through the alignment of
@@ -33,25 +32,16 @@ const marks = JSON.parse(readFileSync(`demo-data/${PATIENT}/v3/marks.json`, 'utf
 const LESION = marks.marks.find((m) => m.id === 'M2')!.centreMm;
 
 describe('a visit with only a scan, followed to the end', () => {
-  let server: WebServer;
-  let browser: Browser;
+  let app: OpenedApp;
   let page: Page;
   let errors: string[];
 
   beforeAll(async () => {
-    if (!existsSync('build/renderer/index.html')) throw new Error('build the renderer first: npx vite build');
-    mkdirSync('test-results', { recursive: true });
-    server = await startWebServer('build/renderer');
-    browser = await launchChromium();
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    page = await context.newPage();
-    errors = watchErrors(page);
+    app = await openBuiltApp();
+    ({ page, errors } = app);
   });
 
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  afterAll(() => app?.close());
 
   const viewer = () => page.getByTestId('slice-viewer').first();
   const notice = async () => (await page.getByTestId('edit-notice').textContent()) ?? '';
@@ -113,7 +103,7 @@ describe('a visit with only a scan, followed to the end', () => {
   });
 
   it('opens a visit that has only its scan: no map, left out of the analysis, the liver asked for first', async () => {
-    await page.goto(server.url);
+    await page.goto(app.url);
     await page.locator(`[data-patient="${PATIENT}"] [data-testid="open-patient"]`).waitFor({ timeout: 90_000 });
     // The store keeps v3's scan alone.
     await page.evaluate(async (patientId) => {

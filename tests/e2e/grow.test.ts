@@ -1,33 +1,22 @@
-import { existsSync, mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { startWebServer, type WebServer } from '../../main/web-server.js';
-import { launchChromium, watchErrors } from './browser.js';
+import type { Page } from 'playwright-core';
+import { openBuiltApp, type OpenedApp } from './browser.js';
 
 // Growing from a click in the visit viewer, in headless Chromium on an invented demo patient: a liver
 // mask grown from one click, shown with its settings, accepted (stored with an edit-trail entry, the
 // segment map rebuilt from the visit's landmarks inside it), then a lesion grown from a click on a
 // lesion and accepted into the lesion mask. Screenshots go to test-results/.
 describe('grow from a click', () => {
-  let server: WebServer;
-  let browser: Browser;
+  let app: OpenedApp;
   let page: Page;
   let errors: string[];
 
   beforeAll(async () => {
-    if (!existsSync('build/renderer/index.html')) throw new Error('build the renderer first: npx vite build');
-    mkdirSync('test-results', { recursive: true });
-    server = await startWebServer('build/renderer');
-    browser = await launchChromium();
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    page = await context.newPage();
-    errors = watchErrors(page);
+    app = await openBuiltApp();
+    ({ page, errors } = app);
   });
 
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  afterAll(() => app?.close());
 
   const viewer = () => page.getByTestId('slice-viewer');
   const settled = async () => {
@@ -66,7 +55,7 @@ describe('grow from a click', () => {
   };
 
   it('grows the liver from one click, shows its settings, and stores it when accepted', async () => {
-    await page.goto(server.url);
+    await page.goto(app.url);
     await page.locator('[data-patient="DEMO-0001"] [data-testid="open-patient"]').click({ timeout: 90_000 });
     await page.locator('[data-testid="visit-row"][data-visit="v2"] a').click();
     await viewer().waitFor();

@@ -1,32 +1,21 @@
-import { existsSync, mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { startWebServer, type WebServer } from '../../main/web-server.js';
-import { launchChromium, watchErrors } from './browser.js';
+import type { Page } from 'playwright-core';
+import { openBuiltApp, type OpenedApp } from './browser.js';
 
 // Scrolling the viewer with the wheel while the pointer rests on the image: the readout (position,
 // value, segment) follows the slice without a mouse move, notches the browser merged into one event
 // all count, and the new slice is drawn inside the wheel event itself, not a frame later.
 describe('viewer wheel scrolling', () => {
-  let server: WebServer;
-  let browser: Browser;
+  let app: OpenedApp;
   let page: Page;
   let errors: string[];
 
   beforeAll(async () => {
-    if (!existsSync('build/renderer/index.html')) throw new Error('build the renderer first: npx vite build');
-    mkdirSync('test-results', { recursive: true });
-    server = await startWebServer('build/renderer');
-    browser = await launchChromium();
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    page = await context.newPage();
-    errors = watchErrors(page);
+    app = await openBuiltApp();
+    ({ page, errors } = app);
   });
 
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  afterAll(() => app?.close());
 
   const viewer = () => page.getByTestId('slice-viewer');
   const sliceNumber = async () => Number(await viewer().getAttribute('data-slice'));
@@ -35,7 +24,7 @@ describe('viewer wheel scrolling', () => {
   const readoutZ = async () => Number(/z (-?\d+\.\d) mm/.exec(await readout())?.[1]);
 
   it('keeps the readout on the slice under a still pointer, counts merged notches, draws in the event', async () => {
-    await page.goto(server.url);
+    await page.goto(app.url);
     await page.locator('[data-patient="DEMO-0001"] [data-testid="open-patient"]').click({ timeout: 90_000 });
     await page.locator('[data-testid="visit-row"][data-visit="v2"] a').click();
     await viewer().waitFor();

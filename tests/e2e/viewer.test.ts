@@ -1,32 +1,21 @@
-import { existsSync, mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { startWebServer, type WebServer } from '../../main/web-server.js';
-import { launchChromium, watchErrors } from './browser.js';
+import type { Page } from 'playwright-core';
+import { openBuiltApp, type OpenedApp } from './browser.js';
 
 // The visit viewer in headless Chromium on the demo patients the app imports on first start:
 // scroll the slices, mark a lesion with calipers and see it placed, move a landmark and see the
 // segment map rebuilt. Screenshots go to test-results/ for a reader to look at.
 describe('visit viewer', () => {
-  let server: WebServer;
-  let browser: Browser;
+  let app: OpenedApp;
   let page: Page;
   let errors: string[];
 
   beforeAll(async () => {
-    if (!existsSync('build/renderer/index.html')) throw new Error('build the renderer first: npx vite build');
-    mkdirSync('test-results', { recursive: true });
-    server = await startWebServer('build/renderer');
-    browser = await launchChromium();
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    page = await context.newPage();
-    errors = watchErrors(page);
+    app = await openBuiltApp();
+    ({ page, errors } = app);
   });
 
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  afterAll(() => app?.close());
 
   const viewer = () => page.getByTestId('slice-viewer');
   const sliceNumber = async () => Number(await viewer().getAttribute('data-slice'));
@@ -53,7 +42,7 @@ describe('visit viewer', () => {
   };
 
   it('opens a demo visit and scrolls through its slices', async () => {
-    await page.goto(server.url);
+    await page.goto(app.url);
     // First start imports the invented demo patients.
     await page.locator('[data-patient="DEMO-0001"] [data-testid="open-patient"]').click({ timeout: 90_000 });
     await page.locator('[data-testid="visit-row"][data-visit="v2"] a').click();
