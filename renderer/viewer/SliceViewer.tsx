@@ -110,9 +110,10 @@ export function SliceViewer(props: Props) {
   const [size, setSize] = useState<{ w: number; h: number } | null>(null);
   const [view, setView] = useState<View | null>(null);
   const [drag, setDrag] = useState<Drag | null>(null);
-  // Where the pointer rests over the image: the readout is worked out from it on every render, so it
-  // follows the slice when the wheel changes it under a still pointer.
-  const [pointer, setPointer] = useState<{ x: number; y: number } | null>(null);
+  // Where the pointer rests, in page (client) coordinates: the readout is worked out from it and the
+  // box's current place on every render, so it follows the slice when the wheel changes it under a
+  // still pointer, and the point under the pointer when the page above the image reflows.
+  const [pointer, setPointer] = useState<{ clientX: number; clientY: number } | null>(null);
   const fitted = useRef(1);
   // Per-layout scratch: the slice image and its planes, reused for every slice.
   const scratch = useMemo(() => {
@@ -390,7 +391,7 @@ export function SliceViewer(props: Props) {
       lesion: l > 0 ? volumes.lesions!.ids[l - 1] : null,
     };
   };
-  const readout = pointer ? readoutAt(pointer.x, pointer.y) : null;
+  const readout = pointer && box.current ? readoutAt(...local(pointer)) : null;
 
   const onPointerDown = (e: ReactPointerEvent<HTMLDivElement>) => {
     if (!view || (e.target as HTMLElement).closest('.handle, .zoom-controls')) return;
@@ -433,7 +434,7 @@ export function SliceViewer(props: Props) {
 
   const onPointerMove = (e: ReactPointerEvent<HTMLDivElement>) => {
     const [x, y] = local(e);
-    setPointer({ x, y });
+    setPointer({ clientX: e.clientX, clientY: e.clientY });
     if (!drag || !view) return;
     if (drag.kind === 'pan') {
       const moved = drag.moved || Math.hypot(x - drag.x, y - drag.y) > 3;
